@@ -1,0 +1,229 @@
+// lode/index.h — the inverted index in one SQLite file.
+//
+// Layout (documented byte by byte in docs/index-format.md, format version 1):
+// documents with per-field lengths and a live flag, a term dictionary with
+// exact df/cf per (field, term), postings in blocks of up to 128 documents with
+// per-block max tf and min field length, positions per block, a forward index
+// (document -> term ids and tfs per field) and the stored, compressed text.
+//
+// Writing: one IndexWriter per index file at a time, across processes (a lock
+// file beside the index; a second writer gets Busy with the holder's pid).
+// Everything added is invisible to readers until commit(); a crash at any
+// instant leaves the index as of the last commit (SQLite WAL transactions).
+// Collection statistics (N, lengths, df, cf) are exact for live documents at
+// every commit. Document ids only grow: replacing a file marks its old
+// documents dead and appends new ones.
+//
+// Reading: any number of IndexReaders, in any processes, concurrently with the
+// writer. All reads between begin() and the end of the returned ReadScope see
+// one consistent snapshot.
+//
+// Thread safety: an IndexWriter or IndexReader is used by one thread at a time.
+// Open one reader per thread (opening is cheap).
+#pragma once
+
+#include <array>
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "lode/analysis.h"
+#include "lode/status.h"
+
+namespace lode {
+
+using DocId = std::uint32_t;
+using TermId = std::int64_t;
+
+// Indexed fields. Stored values are fixed forever: never renumber.
+enum class Field : std::uint8_t { kTitle = 0, kBody = 1 };
+inline constexpr int kFieldCount = 2;
+inline constexpr std::array<Field, kFieldCount> kAllFields = {Field::kTitle, Field::kBody};
+std::string_view field_name(Field f);                        // "title", "body"
+std::optional<Field> parse_field(std::string_view name);     // nullopt if unknown
+
+inline constexpr int kIndexFormatVersion = 1;
+inline constexpr std::uint32_t kBlockSize = 128;  // documents per postings block
+
+// Settings fixed when an index is created and recorded in it.
+struct IndexSettings {
+  AnalyzerOptions analyzer;  // language and stopwords; queries use exactly these
+};
+
+struct WriterOptions {
+  // Approximate memory the in-memory batch may use before it is flushed and
+  // committed. Default 256 MiB: large batches write fewer, fuller blocks;
+  // peak RSS stays about 2x this whatever the corpus size.
+  std::size_t batch_bytes = std::size_t{256} << 20;
+  // Commit at least every this many documents (0 = only by size / on commit()).
+  std::size_t batch_documents = 0;
+};
+
+// One file as the index remembers it (for change detection).
+struct FileRecord {
+  std::string path;          // absolute path: the key
+  std::string root;          // crawl root it was found under (absolute)
+  std::int64_t size = 0;
+  std::int64_t mtime_ns = 0;
+  std::string hash;          // content hash (hex)
+  std::string kind;          // "text", "markdown", "jsonl", ...
+};
+
+// A document to add: field text (valid UTF-8) and identity.
+struct DocumentInput {
+  std::string external_id;   // id shown to users (JSONL record id or relative path)
+  std::string title;
+  std::string body;
+  std::string kind;
+};
+
+struct CollectionStats {
+  std::uint64_t documents = 0;                       // live documents (N)
+  std::array<std::uint64_t, kFieldCount> total_length{};  // sum of field lengths, live docs
+  std::uint64_t files = 0;
+  std::uint64_t terms = 0;      // (field, term) pairs with df > 0
+  std::uint64_t postings = 0;   // sum of df over terms (live postings)
+  std::uint64_t dead_documents = 0;  // replaced or deleted, not yet compacted
+  std::uint64_t bytes_on_disk = 0;   // index file + WAL
+  // Average field length over live docs (0 when empty).
+  double average_length(Field f) const;
+};
+
+class IndexWriter {
+ public:
+  // Opens `path` for writing, creating the index with `settings` if it does not
+  // exist. If it exists and `settings` is given, they must equal the recorded
+  // ones (InvalidArgument naming the difference). Errors: Busy (another
+  // writer, message names its pid), IOError, Corruption (not a lode index or a
+  // newer format version).
+  static Result<std::unique_ptr<IndexWriter>> open(const std::string& path,
+                                                   const std::optional<IndexSettings>& settings,
+                                                   const WriterOptions& options = {});
+  ~IndexWriter();  // commits nothing: uncommitted work is rolled back
+  IndexWriter(const IndexWriter&) = delete;
+  IndexWriter& operator=(const IndexWriter&) = delete;
+
+  const IndexSettings& settings() const;
+
+  // The recorded state of a file, or nullopt if the index does not hold it.
+  Result<std::optional<FileRecord>> file(const std::string& path);
+  // Every file whose path starts with `prefix` ("" = all), sorted by path.
+  Result<std::vector<FileRecord>> files_with_prefix(const std::string& prefix);
+
+  // Adds (or replaces) `file` and its documents. Documents with no words are
+  // still recorded (they can be listed but never match).
+  Status put_file(const FileRecord& file, const std::vector<DocumentInput>& documents);
+  // Records a new size/mtime/root for a file whose content is unchanged
+  // (same hash), without touching its documents. NotFound if not held.
+  Status touch_file(const FileRecord& file);
+  // Removes a file and its documents. NotFound if the index does not hold it.
+  Status remove_file(const std::string& path);
+
+  // Flushes the batch and commits. Readers see everything up to here.
+  Status commit();
+  // Live statistics including uncommitted work.
+  CollectionStats stats() const;
+
+ private:
+  struct Impl;
+  explicit IndexWriter(std::unique_ptr<Impl> impl);
+  std::unique_ptr<Impl> impl_;
+};
+
+// What a reader knows about one document.
+struct DocumentInfo {
+  DocId id = 0;
+  std::string external_id;
+  std::string title;
+  std::string kind;
+  std::string path;  // file it came from
+  std::array<std::uint32_t, kFieldCount> length{};  // field lengths in terms
+  bool live = false;
+};
+
+struct TermInfo {
+  TermId id = 0;
+  Field field = Field::kBody;
+  std::string term;
+  std::uint64_t df = 0;  // live documents containing it
+  std::uint64_t cf = 0;  // total occurrences in live documents
+};
+
+// Cursor over one term's postings, in increasing document order. Dead
+// documents are included; callers check liveness (IndexReader::live).
+// valid()/doc()/tf() describe the current posting; an I/O or decoding error
+// makes valid() false and status() non-ok.
+class PostingCursor {
+ public:
+  virtual ~PostingCursor() = default;
+  virtual bool valid() const = 0;
+  virtual DocId doc() const = 0;          // REQUIRES: valid()
+  virtual std::uint32_t tf() const = 0;   // REQUIRES: valid()
+  virtual void next() = 0;                // REQUIRES: valid()
+  // Moves to the first posting with doc >= target (never backwards).
+  virtual void seek(DocId target) = 0;
+  // Positions of the term in the current document, ascending. REQUIRES: valid().
+  virtual Result<std::vector<std::uint32_t>> positions() = 0;
+  // Block metadata for pruning: the current block's last doc, max tf and the
+  // minimum field length among its documents. REQUIRES: valid().
+  virtual DocId block_last_doc() const = 0;
+  virtual std::uint32_t block_max_tf() const = 0;
+  virtual std::uint32_t block_min_length() const = 0;
+  virtual Status status() const = 0;
+};
+
+class IndexReader {
+ public:
+  // Errors: NotFound (no index at path; message says how to make one),
+  // Corruption (not a lode index / newer format), IOError.
+  static Result<std::unique_ptr<IndexReader>> open(const std::string& path);
+  ~IndexReader();
+  IndexReader(const IndexReader&) = delete;
+  IndexReader& operator=(const IndexReader&) = delete;
+
+  // Starts a read snapshot; it lasts until the ReadScope is destroyed. All
+  // other methods REQUIRE an active scope. Not reentrant.
+  class ReadScope {
+   public:
+    explicit ReadScope(IndexReader* r) : r_(r) {}
+    ReadScope(ReadScope&& o) noexcept : r_(o.r_) { o.r_ = nullptr; }
+    ReadScope(const ReadScope&) = delete;
+    ~ReadScope();
+   private:
+    IndexReader* r_;
+  };
+  Result<ReadScope> begin();
+
+  const IndexSettings& settings() const;
+  const std::string& path() const;
+  CollectionStats stats() const;
+
+  // nullopt when the term has never been indexed in that field.
+  Result<std::optional<TermInfo>> term(Field field, std::string_view term);
+  Result<TermInfo> term_by_id(TermId id);
+  // A cursor over `term`'s postings; owned by the caller, valid within the scope.
+  std::unique_ptr<PostingCursor> postings(const TermInfo& term);
+
+  bool live(DocId doc);
+  std::uint32_t length(DocId doc, Field field);
+  Result<DocumentInfo> document(DocId doc);
+  // Live document with this external id (first match), or NotFound.
+  Result<DocId> find_external(std::string_view external_id);
+  // Stored field text (decompressed).
+  Result<std::string> stored_text(DocId doc, Field field);
+  // Forward index: (term id, tf) pairs of one field of a document, by term id.
+  Result<std::vector<std::pair<TermId, std::uint32_t>>> forward(DocId doc, Field field);
+  // Highest document id ever assigned + 1.
+  DocId doc_id_limit() const;
+
+ private:
+  struct Impl;
+  explicit IndexReader(std::unique_ptr<Impl> impl);
+  void end_scope();
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace lode

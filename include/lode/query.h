@@ -1,0 +1,59 @@
+// lode/query.h — query text to a query tree, analyzed like the index.
+//
+// Syntax (lode's own):
+//   wind turbine        bare words: ranked, any may match
+//   "tide gauge"        a phrase: the words adjacent and in order (stopword gaps kept);
+//                       a document must contain the phrase; its words are also ranked
+//   +storm              required: every match contains it
+//   -draft              excluded: no match contains it (also -"a phrase")
+//   title:lamp          restricts a word or phrase to one field (title, body);
+//                       combines with + and -: +title:"fog horn"
+// A bare word that the analyzer splits into several terms ("e-mail") counts as
+// separate ranked words; with + or - it counts as a phrase. Stopwords in bare
+// words are dropped with a warning. An unclosed quote runs to the end.
+//
+// Thread safety: parse_query uses the given Analyzer, which is single-threaded.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "lode/analysis.h"
+#include "lode/index.h"
+#include "lode/status.h"
+
+namespace lode {
+
+struct QueryLimits {
+  std::size_t max_bytes = 16384;  // query text size; longer queries are refused
+  std::size_t max_terms = 1024;   // analyzed words over all clauses
+};
+
+enum class Occur { kShould, kMust, kMustNot };
+
+struct QueryWord {
+  std::string term;       // analyzed (folded, stemmed) term
+  std::uint32_t offset;   // position relative to the clause's first word
+};
+
+struct Clause {
+  Occur occur = Occur::kShould;
+  bool phrase = false;              // words must be adjacent with these offsets
+  std::optional<Field> field;       // nullopt: title and body
+  std::vector<QueryWord> words;     // never empty
+  std::string text;                 // the clause as typed, for messages
+};
+
+struct Query {
+  std::vector<Clause> clauses;
+  std::vector<std::string> warnings;  // e.g. "'the' is a stopword and was left out"
+};
+
+// Parses and analyzes `text`. Errors: Limit (too long, too many words; the
+// message names the limit), InvalidArgument (invalid UTF-8, an unknown field
+// before ':' is NOT an error: "foo:bar" is searched as words).
+Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits = {});
+
+}  // namespace lode

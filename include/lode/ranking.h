@@ -1,0 +1,139 @@
+// lode/ranking.h — scoring models, top-k retrieval, per-term breakdowns, snippets.
+//
+// Models (published; usual names kept):
+//  * BM25 (Robertson & Zaragoza 2009, "The Probabilistic Relevance Framework"),
+//    per field, summed with field weights:
+//      score(d) = sum over query terms t and fields f of
+//                 w_f * qtf(t) * idf(t,f) * tf*(k1+1) / (tf + k1*(1 - b + b*len_f(d)/avglen_f))
+//      idf(t,f) = ln(1 + (N - df + 0.5) / (df + 0.5))
+//    This idf is the RSJ weight without relevance information, shifted by 1
+//    inside the log so it stays positive when df > N/2 (the raw RSJ form goes
+//    negative there, which would make matching a common word lower a score).
+//  * TF-IDF cosine in SMART notation "ddd.qqq" (document triple, query triple),
+//    per field, summed with field weights. Letters:
+//      tf:  n tf | l 1+log(tf) | a 0.5+0.5*tf/max_tf | b 1 | L (1+log tf)/(1+log avg_tf)
+//           | r tf/field length (lode extension: "count/length")
+//      idf: n 1 | t log(N/df) | p max(0, log((N-df)/df))
+//           | s log((1+N)/(1+df)) + 1 (lode extension: smoothed, as scikit-learn's smooth_idf)
+//      norm: n none | c cosine (divide by the vector's Euclidean length)
+//    log() is base 10 by default (as in Manning et al. 2008); SmartWeighting::log_base
+//    changes it (e.g. e to match scikit-learn's sublinear_tf).
+// Every hit's breakdown lists one entry per matched (term, field) and the
+// entries' contributions, added in order, equal the score exactly (the same
+// arithmetic computes both).
+//
+// Thread safety: a Searcher wraps one IndexReader and one Analyzer; use it
+// from one thread at a time.
+#pragma once
+
+#include <array>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "lode/index.h"
+#include "lode/query.h"
+#include "lode/status.h"
+
+namespace lode {
+
+enum class Model { kBm25, kTfIdf };
+std::string_view model_name(Model m);                      // "bm25", "tfidf"
+std::optional<Model> parse_model(std::string_view name);
+
+struct Bm25Params {
+  double k1 = 1.2;   // tf saturation; 1.2 is the common-practice default (range 0..3)
+  double b = 0.75;   // length normalisation; 0.75 common practice (range 0..1)
+};
+
+struct SmartWeighting {
+  char doc_tf = 'l', doc_idf = 'n', doc_norm = 'c';
+  char query_tf = 'l', query_idf = 't', query_norm = 'c';
+  double log_base = 10.0;  // base of every log in tf and idf
+  // Parses "lnc.ltc" (InvalidArgument naming the bad letter otherwise).
+  static Result<SmartWeighting> parse(std::string_view notation);
+  std::string notation() const;  // "lnc.ltc"
+};
+
+// Weight functions, exposed for tests and for the matrix export.
+double smart_tf(char letter, double tf, double max_tf, double avg_tf, double length, double log_base);
+double smart_idf(char letter, double n_docs, double df, double log_base);
+double bm25_idf(double n_docs, double df);
+double bm25_tf_part(double tf, double length, double avg_length, const Bm25Params& p);
+
+struct SearchOptions {
+  Model model = Model::kBm25;
+  Bm25Params bm25;
+  SmartWeighting smart;
+  // Weight of each field's contribution. Default title 1.0, body 1.0: a word in
+  // a title counts as an extra, short field (see docs/ranking.md for why).
+  std::array<double, kFieldCount> field_weight = {1.0, 1.0};
+  std::size_t top = 10;       // hits to return
+  std::size_t offset = 0;     // hits to skip (paging)
+  bool breakdown = true;      // fill Hit::breakdown
+  bool snippets = true;       // fill Hit::snippet
+  QueryLimits limits;
+};
+
+// One (term, field) pair's share of a hit's score.
+struct TermContribution {
+  std::string term;
+  Field field = Field::kBody;
+  std::uint32_t tf = 0;
+  std::uint64_t df = 0;
+  double idf = 0;            // BM25: bm25_idf; TF-IDF: the query-side idf factor
+  std::uint32_t doc_length = 0;
+  double avg_length = 0;
+  double tf_part = 0;        // BM25: saturated, length-normalised tf; TF-IDF: normalised document weight
+  double query_weight = 0;   // BM25: qtf; TF-IDF: normalised query weight
+  double field_weight = 0;
+  double contribution = 0;   // = field_weight * query_weight * idf * tf_part (BM25)
+                             // = field_weight * query_weight * tf_part (TF-IDF)
+};
+
+struct Snippet {
+  std::string text;  // an excerpt of the body (UTF-8), "…" where cut
+  std::vector<std::pair<std::uint32_t, std::uint32_t>> marks;  // [begin, end) byte ranges of matched words
+};
+
+struct Hit {
+  DocId doc = 0;
+  std::string external_id;
+  std::string title;
+  std::string kind;
+  std::string path;
+  double score = 0;
+  std::vector<TermContribution> breakdown;
+  Snippet snippet;
+};
+
+struct SearchResults {
+  std::vector<Hit> hits;       // best first; ties broken by lower doc id
+  std::uint64_t matched = 0;   // live documents matching the query
+  std::vector<std::string> warnings;
+};
+
+class Searcher {
+ public:
+  // Builds the query analyzer from the index's recorded settings.
+  static Result<std::unique_ptr<Searcher>> create(IndexReader& reader);
+  ~Searcher();
+
+  // Runs one query in one read snapshot. Errors: those of parse_query,
+  // InvalidArgument for bad options (k1 < 0, b outside [0,1], negative
+  // field weight), and index read errors.
+  Result<SearchResults> search(std::string_view query, const SearchOptions& options);
+
+  // The breakdown of one document for a query (empty hit.breakdown if it does
+  // not match). Same snapshot rules as search().
+  Result<Hit> explain(std::string_view query, DocId doc, const SearchOptions& options);
+
+ private:
+  struct Impl;
+  explicit Searcher(std::unique_ptr<Impl> impl);
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace lode

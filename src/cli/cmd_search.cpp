@@ -1,0 +1,152 @@
+// `lode search`: one query (text or --json) or a batch file (TREC run out).
+#include <cmath>
+#include <cstdio>
+#include <iostream>
+
+#include "cli/commands.h"
+#include "cli/common.h"
+#include "lode/eval.h"
+#include "lode/present.h"
+#include "lode/ranking.h"
+
+namespace lode::cli {
+namespace {
+
+struct SearchArgs {
+  std::string query;
+  std::string model = "bm25";
+  double k1 = 1.2, b = 0.75;
+  std::string weighting = "lnc.ltc";
+  double log_base = 10;
+  double title_weight = 1.0, body_weight = 1.0;
+  std::size_t top = 10, offset = 0;
+  bool json = false, why = false, no_snippets = false;
+  std::string batch, run_tag;
+};
+
+Result<SearchOptions> to_options(const SearchArgs& a, CLI::App& app) {
+  SearchOptions o;
+  auto model = parse_model(a.model);
+  if (!model) return Status::InvalidArgument("--model must be bm25 or tfidf, not '" + a.model + "'");
+  o.model = *model;
+  o.bm25 = {a.k1, a.b};
+  auto w = SmartWeighting::parse(a.weighting);
+  if (!w) return w.status();
+  o.smart = *w;
+  o.smart.log_base = a.log_base;
+  o.field_weight = {a.title_weight, a.body_weight};
+  o.top = a.top;
+  o.offset = a.offset;
+  o.snippets = !a.no_snippets;
+  if (o.model == Model::kBm25 && app.count("--weighting"))
+    return Status::InvalidArgument("--weighting applies to --model tfidf");
+  if (o.model == Model::kTfIdf && (app.count("--k1") || app.count("--b")))
+    return Status::InvalidArgument("--k1 and --b apply to --model bm25");
+  return o;
+}
+
+// Marks snippet words: bold on a terminal, [brackets] in a pipe.
+std::string marked(const Snippet& s, bool tty) {
+  std::string out;
+  std::size_t at = 0;
+  for (auto& [b, e] : s.marks) {
+    out.append(s.text, at, b - at);
+    out += tty ? "\033[1m" : "[";
+    out.append(s.text, b, e - b);
+    out += tty ? "\033[0m" : "]";
+    at = e;
+  }
+  out.append(s.text, at, std::string::npos);
+  return out;
+}
+
+void print_breakdown(const Hit& h, Model model) {
+  std::printf("      %-18s %-5s %4s %6s %8s %6s %8s %9s %8s %6s %12s\n", "term", "field", "tf", "df", "idf", "len",
+              "avg_len", model == Model::kBm25 ? "tf_part" : "doc_wt", "query_wt", "fw", "contribution");
+  for (const TermContribution& c : h.breakdown)
+    std::printf("      %-18s %-5s %4u %6llu %8.4f %6u %8.2f %9.4f %8.4f %6.2f %12.6f\n", c.term.c_str(),
+                std::string(field_name(c.field)).c_str(), c.tf, static_cast<unsigned long long>(c.df), c.idf,
+                c.doc_length, c.avg_length, c.tf_part, c.query_weight, c.field_weight, c.contribution);
+  std::printf("      %-18s %87s %12.6f\n", "= score", "", h.score);
+}
+
+int run_single(Searcher& searcher, const SearchArgs& a, const SearchOptions& o) {
+  auto results = searcher.search(a.query, o);
+  if (!results) return fail(results.status());
+  if (a.json) {
+    std::cout << results_json(a.query, *results, o).dump(2) << "\n";
+    return kExitOk;
+  }
+  for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
+  bool tty = stdout_is_tty();
+  std::printf("%llu matching documents (%s)\n", static_cast<unsigned long long>(results->matched),
+              o.model == Model::kBm25 ? ("bm25 k1=" + std::to_string(o.bm25.k1).substr(0, 4) +
+                                         " b=" + std::to_string(o.bm25.b).substr(0, 4)).c_str()
+                                      : ("tfidf " + o.smart.notation()).c_str());
+  for (std::size_t i = 0; i < results->hits.size(); ++i) {
+    const Hit& h = results->hits[i];
+    std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());
+    std::printf("      %s  [%s]\n", h.external_id.c_str(), h.kind.c_str());
+    if (!h.snippet.text.empty()) std::printf("      %s\n", marked(h.snippet, tty).c_str());
+    if (a.why) print_breakdown(h, o.model);
+  }
+  return kExitOk;
+}
+
+int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App& app) {
+  auto queries = read_queries(a.batch);
+  if (!queries) return fail(queries.status());
+  if (!app.count("--top")) o.top = 1000;  // the usual depth of a TREC run
+  o.breakdown = false;
+  o.snippets = false;
+  std::string tag = a.run_tag.empty() ? "lode-" + std::string(model_name(o.model)) : a.run_tag;
+  for (const QueryLine& q : *queries) {
+    auto results = searcher.search(q.text, o);
+    if (!results) {
+      std::fprintf(stderr, "lode: query %s: %s\n", q.id.c_str(), results.status().to_string().c_str());
+      return kExitError;
+    }
+    for (std::size_t i = 0; i < results->hits.size(); ++i)
+      std::printf("%s\n", format_run_line(q.id, results->hits[i].external_id, o.offset + i + 1,
+                                          results->hits[i].score, tag).c_str());
+  }
+  return kExitOk;
+}
+
+int run_search(const SearchArgs& a, const std::string& index_flag, CLI::App& app) {
+  if (a.batch.empty() == a.query.empty())
+    return fail(Status::InvalidArgument("give either a QUERY or --batch FILE"));
+  auto opts = to_options(a, app);
+  if (!opts) return fail(opts.status());
+  auto reader = IndexReader::open(resolve_index(index_flag));
+  if (!reader) return fail(reader.status());
+  auto searcher = Searcher::create(**reader);
+  if (!searcher) return fail(searcher.status());
+  return a.batch.empty() ? run_single(**searcher, a, *opts) : run_batch(**searcher, a, *opts, app);
+}
+
+}  // namespace
+
+Runner add_search_command(CLI::App& app, const std::string& index_flag) {
+  auto a = std::make_shared<SearchArgs>();
+  app.add_option("query", a->query, "the query: words, \"phrases\", +required, -excluded, title:word");
+  app.add_option("--model", a->model, "bm25 (default) or tfidf");
+  app.add_option("--k1", a->k1, "BM25 tf saturation (default 1.2)")->check(CLI::Range(0.0, 1000.0));
+  app.add_option("--b", a->b, "BM25 length normalisation (default 0.75)")->check(CLI::Range(0.0, 1.0));
+  app.add_option("--weighting", a->weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
+  app.add_option("--log-base", a->log_base, "base of the logs in TF-IDF weights (default 10)")
+      ->check(CLI::Range(1.000001, 1e9));
+  app.add_option("--title-weight", a->title_weight, "weight of title matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--body-weight", a->body_weight, "weight of body matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--top", a->top, "number of hits (default 10; 1000 with --batch)");
+  app.add_option("--offset", a->offset, "skip this many hits first (paging)");
+  app.add_flag("--json", a->json, "print results as JSON (schema lode.search/1)");
+  app.add_flag("--why", a->why, "print each hit's per-term score breakdown as a table");
+  app.add_flag("--no-snippets", a->no_snippets, "leave snippets out (faster)");
+  app.add_option("--batch", a->batch, "queries file, one 'id<TAB>text' per line; prints a TREC run")
+      ->type_name("FILE");
+  app.add_option("--run-tag", a->run_tag, "last column of the TREC run (default lode-MODEL)");
+  return [a, &index_flag, &app] { return run_search(*a, index_flag, app); };
+}
+
+}  // namespace lode::cli

@@ -1,0 +1,15 @@
+// The lode subcommands: each registers its options on a CLI11 app and runs.
+#pragma once
+
+#include <CLI/CLI.hpp>
+#include <functional>
+
+namespace lode::cli {
+
+// Each returns the function to run if its subcommand was chosen.
+using Runner = std::function<int()>;
+Runner add_index_command(CLI::App& app, const std::string& index_flag);
+Runner add_search_command(CLI::App& app, const std::string& index_flag);
+Runner add_stats_command(CLI::App& app, const std::string& index_flag);
+
+}  // namespace lode::cli

@@ -1,0 +1,214 @@
+#include "index/codec.h"
+
+#include <zstd.h>
+
+#include <cstring>
+
+namespace lode::codec {
+
+void put_varint(std::string& out, std::uint64_t v) {
+  while (v >= 0x80) {
+    out.push_back(static_cast<char>((v & 0x7f) | 0x80));
+    v >>= 7;
+  }
+  out.push_back(static_cast<char>(v));
+}
+
+bool Reader::varint(std::uint64_t& v) {
+  v = 0;
+  for (int shift = 0; shift < 64; shift += 7) {
+    if (p_ == end_) return !(failed_ = true);
+    auto byte = static_cast<std::uint8_t>(*p_++);
+    v |= static_cast<std::uint64_t>(byte & 0x7f) << shift;
+    if (!(byte & 0x80)) return true;
+  }
+  return !(failed_ = true);  // more than 10 bytes
+}
+
+bool Reader::varint32(std::uint32_t& v) {
+  std::uint64_t w = 0;
+  if (!varint(w) || w > 0xffffffffu) return !(failed_ = true);
+  v = static_cast<std::uint32_t>(w);
+  return true;
+}
+
+bool Reader::u32le(std::uint32_t& v) {
+  if (remaining() < 4) return !(failed_ = true);
+  auto* b = reinterpret_cast<const std::uint8_t*>(p_);
+  v = std::uint32_t{b[0]} | std::uint32_t{b[1]} << 8 | std::uint32_t{b[2]} << 16 |
+      std::uint32_t{b[3]} << 24;
+  p_ += 4;
+  return true;
+}
+
+bool Reader::bytes(std::size_t n, std::string_view& out) {
+  if (remaining() < n) return !(failed_ = true);
+  out = std::string_view(p_, n);
+  p_ += n;
+  return true;
+}
+
+std::string encode_block(const Block& b) {
+  std::string out;
+  out.reserve(b.docs.size() * 3);
+  for (std::size_t i = 1; i < b.docs.size(); ++i) put_varint(out, b.docs[i] - b.docs[i - 1]);
+  for (auto tf : b.tfs) put_varint(out, tf);
+  return out;
+}
+
+Status decode_block(std::string_view data, DocId first_doc, std::uint32_t n, Block& out) {
+  out.docs.resize(n);
+  out.tfs.resize(n);
+  if (n == 0 || n > kBlockSize) return Status::Corruption("postings block: bad count " + std::to_string(n));
+  Reader r(data);
+  out.docs[0] = first_doc;
+  for (std::uint32_t i = 1; i < n; ++i) {
+    std::uint32_t d = 0;
+    if (!r.varint32(d) || d == 0 || out.docs[i - 1] > 0xffffffffu - d)
+      return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": bad doc delta");
+    out.docs[i] = out.docs[i - 1] + d;
+  }
+  for (std::uint32_t i = 0; i < n; ++i) {
+    if (!r.varint32(out.tfs[i]) || out.tfs[i] == 0)
+      return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": bad tf");
+  }
+  if (!r.at_end()) return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": trailing bytes");
+  return Status();
+}
+
+Status split_positions(std::string_view data, const std::vector<std::uint32_t>& tfs,
+                       std::vector<std::uint32_t>& starts) {
+  starts.clear();
+  Reader r(data);
+  for (auto tf : tfs) {
+    starts.push_back(static_cast<std::uint32_t>(data.size() - r.remaining()));
+    for (std::uint32_t i = 0; i < tf; ++i) {
+      std::uint64_t v = 0;
+      if (!r.varint(v)) return Status::Corruption("positions blob: truncated");
+    }
+  }
+  if (!r.at_end()) return Status::Corruption("positions blob: trailing bytes");
+  return Status();
+}
+
+Status decode_positions(std::string_view data, std::uint32_t start, std::uint32_t tf,
+                        std::vector<std::uint32_t>& out) {
+  out.clear();
+  if (start > data.size()) return Status::Corruption("positions blob: offset past end");
+  Reader r(data.substr(start));
+  std::uint64_t pos = 0;
+  for (std::uint32_t i = 0; i < tf; ++i) {
+    std::uint64_t d = 0;
+    if (!r.varint(d)) return Status::Corruption("positions blob: truncated");
+    pos += d;
+    if (pos > 0xffffffffu) return Status::Corruption("positions blob: position overflow");
+    out.push_back(static_cast<std::uint32_t>(pos));
+  }
+  return Status();
+}
+
+void encode_positions(std::string& out, const std::vector<std::uint32_t>& positions) {
+  std::uint32_t prev = 0;
+  for (auto p : positions) {
+    put_varint(out, p - prev);
+    prev = p;
+  }
+}
+
+std::string encode_forward(const std::vector<ForwardList>& per_field) {
+  std::string out;
+  for (int f = 0; f < kFieldCount; ++f) {
+    const ForwardList empty;
+    const ForwardList& l = static_cast<std::size_t>(f) < per_field.size() ? per_field[static_cast<std::size_t>(f)] : empty;
+    put_varint(out, l.size());
+    TermId prev = 0;
+    for (auto& [id, tf] : l) {
+      put_varint(out, static_cast<std::uint64_t>(id - prev));
+      put_varint(out, tf);
+      prev = id;
+    }
+  }
+  return out;
+}
+
+Status decode_forward(std::string_view data, std::vector<ForwardList>& per_field) {
+  per_field.assign(kFieldCount, {});
+  Reader r(data);
+  for (int f = 0; f < kFieldCount; ++f) {
+    std::uint64_t n = 0;
+    if (!r.varint(n) || n > r.remaining()) return Status::Corruption("forward index: bad count");
+    auto& l = per_field[static_cast<std::size_t>(f)];
+    l.reserve(n);
+    std::uint64_t id = 0;
+    for (std::uint64_t i = 0; i < n; ++i) {
+      std::uint64_t d = 0;
+      std::uint32_t tf = 0;
+      if (!r.varint(d) || !r.varint32(tf) || (i > 0 && d == 0))
+        return Status::Corruption("forward index: truncated entry");
+      id += d;
+      l.emplace_back(static_cast<TermId>(id), tf);
+    }
+  }
+  if (!r.at_end()) return Status::Corruption("forward index: trailing bytes");
+  return Status();
+}
+
+static void put_u32le(char* p, std::uint32_t v) {
+  for (int i = 0; i < 4; ++i) p[i] = static_cast<char>((v >> (8 * i)) & 0xff);
+}
+static std::uint32_t get_u32le(const char* p) {
+  auto* b = reinterpret_cast<const std::uint8_t*>(p);
+  return std::uint32_t{b[0]} | std::uint32_t{b[1]} << 8 | std::uint32_t{b[2]} << 16 |
+         std::uint32_t{b[3]} << 24;
+}
+
+void put_norm(std::string& chunk, std::uint32_t slot, const NormEntry& e) {
+  chunk.resize(kNormsPerChunk * kNormEntryBytes, '\0');
+  char* p = chunk.data() + slot * kNormEntryBytes;
+  put_u32le(p, e.live ? 1u : 0u);
+  for (int f = 0; f < kFieldCount; ++f) put_u32le(p + 4 * (f + 1), e.length[static_cast<std::size_t>(f)]);
+}
+
+NormEntry get_norm(std::string_view chunk, std::uint32_t slot) {
+  NormEntry e;
+  if ((slot + 1) * kNormEntryBytes > chunk.size()) return e;
+  const char* p = chunk.data() + slot * kNormEntryBytes;
+  e.live = (get_u32le(p) & 1u) != 0;
+  for (int f = 0; f < kFieldCount; ++f) e.length[static_cast<std::size_t>(f)] = get_u32le(p + 4 * (f + 1));
+  return e;
+}
+
+std::string compress_text(std::string_view text) {
+  std::string out;
+  if (text.size() < 128) {  // not worth a zstd frame header
+    out.push_back('\0');
+    out.append(text);
+    return out;
+  }
+  out.resize(1 + ZSTD_compressBound(text.size()));
+  out[0] = '\1';
+  std::size_t n = ZSTD_compress(out.data() + 1, out.size() - 1, text.data(), text.size(), 3);
+  if (ZSTD_isError(n)) {
+    out.assign(1, '\0');
+    out.append(text);
+    return out;
+  }
+  out.resize(1 + n);
+  return out;
+}
+
+Result<std::string> decompress_text(std::string_view blob) {
+  if (blob.empty()) return Status::Corruption("stored text: empty blob");
+  std::string_view body = blob.substr(1);
+  if (blob[0] == '\0') return std::string(body);
+  if (blob[0] != '\1') return Status::Corruption("stored text: unknown method byte");
+  unsigned long long size = ZSTD_getFrameContentSize(body.data(), body.size());
+  if (size == ZSTD_CONTENTSIZE_ERROR || size == ZSTD_CONTENTSIZE_UNKNOWN || size > (1ull << 32))
+    return Status::Corruption("stored text: bad zstd frame");
+  std::string out(static_cast<std::size_t>(size), '\0');
+  std::size_t n = ZSTD_decompress(out.data(), out.size(), body.data(), body.size());
+  if (ZSTD_isError(n) || n != size) return Status::Corruption("stored text: zstd decode failed");
+  return out;
+}
+
+}  // namespace lode::codec

@@ -1,0 +1,253 @@
+// IndexReader: snapshot reads over the SQLite index.
+#include <filesystem>
+#include <unordered_map>
+
+#include "index/codec.h"
+#include "index/cursor.h"
+#include "index/schema.h"
+#include "index/sqlite.h"
+#include "lode/index.h"
+
+namespace lode {
+
+std::string_view field_name(Field f) { return f == Field::kTitle ? "title" : "body"; }
+
+std::optional<Field> parse_field(std::string_view name) {
+  if (name == "title") return Field::kTitle;
+  if (name == "body") return Field::kBody;
+  return std::nullopt;
+}
+
+double CollectionStats::average_length(Field f) const {
+  return documents == 0 ? 0.0
+                        : static_cast<double>(total_length[static_cast<std::size_t>(f)]) /
+                              static_cast<double>(documents);
+}
+
+struct IndexReader::Impl {
+  sql::Db db;
+  IndexSettings settings;
+  schema::Counters counters;
+  bool in_scope = false;
+  std::int64_t data_version = -1;
+  std::unordered_map<std::uint32_t, std::string> norms;  // chunk -> bytes, this snapshot
+  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_version;
+
+  Status prepare_all() {
+    struct {
+      sql::Stmt* stmt;
+      const char* sql;
+    } all[] = {
+        {&q_term, "SELECT term_id, df, cf FROM terms WHERE field = ? AND term = ?"},
+        {&q_term_by_id, "SELECT field, term, df, cf FROM terms WHERE term_id = ?"},
+        {&q_doc, "SELECT d.external_id, d.title, d.kind, coalesce(f.path, ''), d.len_title, d.len_body, d.live "
+                 "FROM docs d LEFT JOIN files f ON f.file_id = d.file_id WHERE d.doc_id = ?"},
+        {&q_external, "SELECT doc_id FROM docs WHERE external_id = ? AND live = 1 ORDER BY doc_id LIMIT 1"},
+        {&q_text, "SELECT title, body FROM doc_text WHERE doc_id = ?"},
+        {&q_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
+        {&q_norms, "SELECT data FROM norms WHERE chunk = ?"},
+        {&q_version, "PRAGMA data_version"},
+    };
+    for (auto& [stmt, text] : all) {
+      auto s = db.prepare(text);
+      if (!s) return s.status();
+      *stmt = std::move(s.value());
+    }
+    return Status();
+  }
+
+  const std::string& chunk(std::uint32_t c) {
+    auto it = norms.find(c);
+    if (it != norms.end()) return it->second;
+    std::string data;
+    q_norms.bind(1, std::int64_t{c});
+    if (q_norms.step()) data = std::string(q_norms.blob(0));
+    q_norms.reset();
+    return norms.emplace(c, std::move(data)).first->second;
+  }
+};
+
+IndexReader::IndexReader(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+IndexReader::~IndexReader() {
+  if (impl_ && impl_->in_scope) end_scope();
+}
+
+Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path) {
+  std::error_code ec;
+  if (!std::filesystem::exists(path, ec))
+    return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
+  auto impl = std::make_unique<Impl>();
+  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
+  if (!db) {
+    db = sql::Db::open(path, SQLITE_OPEN_READONLY);
+    if (!db) return db.status();
+  }
+  impl->db = std::move(db.value());
+  LODE_RETURN_IF_ERROR(schema::configure(impl->db, false));
+  LODE_RETURN_IF_ERROR(impl->db.exec("PRAGMA query_only=1"));
+  auto have = schema::exists(impl->db);
+  if (!have) return have.status();
+  if (!*have) return Status::Corruption(path + ": not a lode index");
+  auto settings = schema::load_settings(impl->db);
+  if (!settings) return settings.status();
+  impl->settings = settings.value();
+  LODE_RETURN_IF_ERROR(impl->prepare_all());
+  return std::unique_ptr<IndexReader>(new IndexReader(std::move(impl)));
+}
+
+IndexReader::ReadScope::~ReadScope() {
+  if (r_) r_->end_scope();
+}
+
+Result<IndexReader::ReadScope> IndexReader::begin() {
+  auto& m = *impl_;
+  if (m.in_scope) return Status::InvalidArgument("read scope already active on this reader");
+  LODE_RETURN_IF_ERROR(m.db.exec("BEGIN"));
+  m.in_scope = true;
+  ReadScope scope(this);
+  // The first read fixes the snapshot; data_version tells whether caches still hold.
+  auto counters = schema::load_counters(m.db);
+  if (!counters) return counters.status();
+  m.counters = counters.value();
+  std::int64_t version = -1;
+  if (m.q_version.step()) version = m.q_version.i64(0);
+  m.q_version.reset();
+  if (version != m.data_version) {
+    m.norms.clear();
+    m.data_version = version;
+  }
+  return scope;
+}
+
+void IndexReader::end_scope() {
+  (void)impl_->db.exec("COMMIT");
+  impl_->in_scope = false;
+  // Another connection may commit before our next scope; norms are revalidated
+  // by data_version there, so they can stay.
+}
+
+const IndexSettings& IndexReader::settings() const { return impl_->settings; }
+const std::string& IndexReader::path() const { return impl_->db.path(); }
+
+CollectionStats IndexReader::stats() const {
+  const auto& c = impl_->counters;
+  CollectionStats s;
+  s.documents = c.documents;
+  s.total_length = c.total_length;
+  s.files = c.files;
+  s.terms = c.terms;
+  s.postings = c.postings;
+  s.dead_documents = c.dead_documents;
+  s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
+  return s;
+}
+
+Result<std::optional<TermInfo>> IndexReader::term(Field field, std::string_view term) {
+  auto& q = impl_->q_term;
+  q.bind(1, static_cast<std::int64_t>(field)).bind(2, term);
+  std::optional<TermInfo> out;
+  if (q.step())
+    out = TermInfo{q.i64(0), field, std::string(term), static_cast<std::uint64_t>(q.i64(1)),
+                   static_cast<std::uint64_t>(q.i64(2))};
+  Status s = q.status();
+  q.reset();
+  if (!s.ok()) return s;
+  return out;
+}
+
+Result<TermInfo> IndexReader::term_by_id(TermId id) {
+  auto& q = impl_->q_term_by_id;
+  q.bind(1, id);
+  if (!q.step()) {
+    Status s = q.status();
+    q.reset();
+    return s.ok() ? Status::NotFound("term id " + std::to_string(id)) : s;
+  }
+  auto f = q.i64(0);
+  if (f < 0 || f >= kFieldCount) {
+    q.reset();
+    return Status::Corruption("term " + std::to_string(id) + ": bad field " + std::to_string(f));
+  }
+  TermInfo t{id, static_cast<Field>(f), std::string(q.text(1)), static_cast<std::uint64_t>(q.i64(2)),
+             static_cast<std::uint64_t>(q.i64(3))};
+  q.reset();
+  return t;
+}
+
+std::unique_ptr<PostingCursor> IndexReader::postings(const TermInfo& term) {
+  return make_block_cursor(impl_->db, term.id);
+}
+
+bool IndexReader::live(DocId doc) {
+  return codec::get_norm(impl_->chunk(doc / codec::kNormsPerChunk), doc % codec::kNormsPerChunk).live;
+}
+
+std::uint32_t IndexReader::length(DocId doc, Field field) {
+  return codec::get_norm(impl_->chunk(doc / codec::kNormsPerChunk), doc % codec::kNormsPerChunk)
+      .length[static_cast<std::size_t>(field)];
+}
+
+Result<DocumentInfo> IndexReader::document(DocId doc) {
+  auto& q = impl_->q_doc;
+  q.bind(1, std::int64_t{doc});
+  if (!q.step()) {
+    Status s = q.status();
+    q.reset();
+    return s.ok() ? Status::NotFound("document " + std::to_string(doc)) : s;
+  }
+  DocumentInfo d;
+  d.id = doc;
+  d.external_id = std::string(q.text(0));
+  d.title = std::string(q.text(1));
+  d.kind = std::string(q.text(2));
+  d.path = std::string(q.text(3));
+  d.length = {static_cast<std::uint32_t>(q.i64(4)), static_cast<std::uint32_t>(q.i64(5))};
+  d.live = q.i64(6) != 0;
+  q.reset();
+  return d;
+}
+
+Result<DocId> IndexReader::find_external(std::string_view external_id) {
+  auto& q = impl_->q_external;
+  q.bind(1, external_id);
+  if (!q.step()) {
+    Status s = q.status();
+    q.reset();
+    return s.ok() ? Status::NotFound("no document with id '" + std::string(external_id) + "'") : s;
+  }
+  auto id = static_cast<DocId>(q.i64(0));
+  q.reset();
+  return id;
+}
+
+Result<std::string> IndexReader::stored_text(DocId doc, Field field) {
+  auto& q = impl_->q_text;
+  q.bind(1, std::int64_t{doc});
+  if (!q.step()) {
+    Status s = q.status();
+    q.reset();
+    return s.ok() ? Status::NotFound("no stored text for document " + std::to_string(doc)) : s;
+  }
+  auto text = codec::decompress_text(q.blob(field == Field::kTitle ? 0 : 1));
+  q.reset();
+  return text;
+}
+
+Result<std::vector<std::pair<TermId, std::uint32_t>>> IndexReader::forward(DocId doc, Field field) {
+  auto& q = impl_->q_fwd;
+  q.bind(1, std::int64_t{doc});
+  if (!q.step()) {
+    Status s = q.status();
+    q.reset();
+    return s.ok() ? Status::NotFound("no forward index for document " + std::to_string(doc)) : s;
+  }
+  std::vector<codec::ForwardList> lists;
+  Status s = codec::decode_forward(q.blob(0), lists);
+  q.reset();
+  if (!s.ok()) return s;
+  return std::move(lists[static_cast<std::size_t>(field)]);
+}
+
+DocId IndexReader::doc_id_limit() const { return static_cast<DocId>(impl_->counters.next_doc_id); }
+
+}  // namespace lode

@@ -1,0 +1,35 @@
+// The SQLite schema of a lode index and its meta table (docs/index-format.md).
+#pragma once
+
+#include "index/sqlite.h"
+#include "lode/index.h"
+
+namespace lode::schema {
+
+// Creates every table in an empty database and records `settings`.
+Status create(sql::Db& db, const IndexSettings& settings);
+// True when the database has lode's meta table.
+Result<bool> exists(sql::Db& db);
+// Reads the recorded analyzer settings; Corruption if the format is newer or absent.
+Result<IndexSettings> load_settings(sql::Db& db);
+
+// Counters kept in meta, exact at every commit.
+struct Counters {
+  std::uint64_t documents = 0;
+  std::uint64_t dead_documents = 0;
+  std::array<std::uint64_t, kFieldCount> total_length{};
+  std::uint64_t files = 0;
+  std::uint64_t terms = 0;
+  std::uint64_t postings = 0;
+  std::uint64_t next_doc_id = 1;  // doc id 0 is never used
+};
+Result<Counters> load_counters(sql::Db& db);
+Status store_counters(sql::Db& db, const Counters& c);
+
+// Applies the pragmas every connection uses (WAL, foreign-free, page cache).
+Status configure(sql::Db& db, bool writer);
+
+// Size of the index file plus its WAL, in bytes (0 if missing).
+std::uint64_t bytes_on_disk(const std::string& path);
+
+}  // namespace lode::schema

@@ -1,0 +1,499 @@
+// IndexWriter: an in-memory batch of inverted postings, flushed into SQLite
+// blocks in one transaction per batch (see docs/index-format.md).
+#include <algorithm>
+#include <map>
+#include <unordered_map>
+
+#include "index/codec.h"
+#include "index/lock.h"
+#include "index/schema.h"
+#include "index/sqlite.h"
+#include "lode/index.h"
+
+namespace lode {
+namespace {
+
+// Postings of one (field, term) gathered in the current batch.
+struct TermBuf {
+  Field field;
+  std::string term;
+  std::vector<DocId> docs;
+  std::vector<std::uint32_t> tfs;
+  std::vector<std::uint32_t> lengths;   // field length of each doc (for block min_len)
+  std::string positions;                // varint deltas, doc after doc
+  std::vector<std::uint32_t> pos_end;   // end offset of each doc's positions
+};
+
+struct PendingDoc {
+  DocId id;
+  std::vector<std::pair<std::uint32_t, std::uint32_t>> slots;  // (term slot, tf)
+};
+
+
+}  // namespace
+
+struct IndexWriter::Impl {
+  sql::Db db;
+  std::optional<WriterLock> lock;
+  IndexSettings settings;
+  WriterOptions options;
+  std::unique_ptr<Analyzer> analyzer;
+  schema::Counters counters;
+  bool in_txn = false;
+
+  std::unordered_map<std::string, std::uint32_t> slot_of;  // field byte + term -> slot
+  std::vector<TermBuf> terms;
+  std::vector<PendingDoc> pending;
+  std::map<std::uint32_t, std::string> dirty_norms;  // chunk -> bytes
+  std::size_t batch_estimate = 0;
+  DocId first_pending = 0;  // first doc id of the batch (0: none yet)
+
+  sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
+  sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
+  sql::Stmt q_find_term, q_insert_term, q_update_term, q_last_block, q_get_positions;
+  sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms, q_doc_lengths;
+
+  Status prepare_all();
+  Status begin();
+  Status remove_docs_of(std::int64_t file_id);
+  Status add_document(std::int64_t file_id, const DocumentInput& d);
+  Status flush();
+  Status write_term(TermBuf& t, TermId id);
+  Result<std::string*> norms_chunk(std::uint32_t chunk);
+};
+
+Status IndexWriter::Impl::prepare_all() {
+  struct {
+    sql::Stmt* stmt;
+    const char* sql;
+  } all[] = {
+      {&q_file, "SELECT file_id, path, root, size, mtime_ns, hash, kind FROM files WHERE path = ?"},
+      {&q_insert_file, "INSERT INTO files(path, root, size, mtime_ns, hash, kind) VALUES(?,?,?,?,?,?)"},
+      {&q_update_file, "UPDATE files SET root=?, size=?, mtime_ns=?, hash=?, kind=? WHERE file_id=?"},
+      {&q_delete_file, "DELETE FROM files WHERE file_id = ?"},
+      {&q_docs_of_file, "SELECT doc_id, len_title, len_body FROM docs WHERE file_id = ? AND live = 1"},
+      {&q_insert_doc, "INSERT INTO docs(doc_id, file_id, external_id, title, kind, len_title, len_body, live) VALUES(?,?,?,?,?,?,?,1)"},
+      {&q_insert_text, "INSERT INTO doc_text(doc_id, title, body) VALUES(?,?,?)"},
+      {&q_kill_doc, "UPDATE docs SET live = 0 WHERE doc_id = ?"},
+      {&q_delete_text, "DELETE FROM doc_text WHERE doc_id = ?"},
+      {&q_delete_fwd, "DELETE FROM doc_terms WHERE doc_id = ?"},
+      {&q_get_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
+      {&q_find_term, "SELECT term_id, df FROM terms WHERE field = ? AND term = ?"},
+      {&q_insert_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, 0, 0)"},
+      {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ? RETURNING df - ?, df"},
+      {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
+      {&q_get_positions, "SELECT data FROM positions WHERE term_id = ? AND first_doc = ?"},
+      {&q_put_block, "INSERT OR REPLACE INTO postings(term_id, first_doc, last_doc, n, max_tf, min_len, data) VALUES(?,?,?,?,?,?,?)"},
+      {&q_put_positions, "INSERT OR REPLACE INTO positions(term_id, first_doc, data) VALUES(?,?,?)"},
+      {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
+      {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
+      {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
+  };
+  for (auto& [stmt, text] : all) {
+    auto s = db.prepare(text);
+    if (!s) return s.status();
+    *stmt = std::move(s.value());
+  }
+  return Status();
+}
+
+Status IndexWriter::Impl::begin() {
+  if (in_txn) return Status();
+  LODE_RETURN_IF_ERROR(db.exec("BEGIN IMMEDIATE"));
+  in_txn = true;
+  return Status();
+}
+
+Result<std::string*> IndexWriter::Impl::norms_chunk(std::uint32_t chunk) {
+  auto it = dirty_norms.find(chunk);
+  if (it != dirty_norms.end()) return &it->second;
+  std::string data;
+  q_get_norms.bind(1, std::int64_t{chunk});
+  if (q_get_norms.step()) data = std::string(q_get_norms.blob(0));
+  Status s = q_get_norms.status();
+  q_get_norms.reset();
+  LODE_RETURN_IF_ERROR(s);
+  data.resize(codec::kNormsPerChunk * codec::kNormEntryBytes, '\0');
+  return &dirty_norms.emplace(chunk, std::move(data)).first->second;
+}
+
+Status IndexWriter::Impl::remove_docs_of(std::int64_t file_id) {
+  struct Dead {
+    DocId id;
+    std::array<std::uint32_t, kFieldCount> len;
+  };
+  std::vector<Dead> dead;
+  q_docs_of_file.bind(1, file_id);
+  while (q_docs_of_file.step())
+    dead.push_back({static_cast<DocId>(q_docs_of_file.i64(0)),
+                    {static_cast<std::uint32_t>(q_docs_of_file.i64(1)),
+                     static_cast<std::uint32_t>(q_docs_of_file.i64(2))}});
+  Status s = q_docs_of_file.status();
+  q_docs_of_file.reset();
+  LODE_RETURN_IF_ERROR(s);
+  // Documents still in the in-memory batch have no forward index yet.
+  for (auto& d : dead)
+    if (first_pending != 0 && d.id >= first_pending) {
+      LODE_RETURN_IF_ERROR(flush());
+      LODE_RETURN_IF_ERROR(begin());
+      break;
+    }
+  for (auto& d : dead) {
+    q_get_fwd.bind(1, std::int64_t{d.id});
+    std::string blob;
+    if (q_get_fwd.step()) blob = std::string(q_get_fwd.blob(0));
+    s = q_get_fwd.status();
+    q_get_fwd.reset();
+    LODE_RETURN_IF_ERROR(s);
+    std::vector<codec::ForwardList> fwd;
+    LODE_RETURN_IF_ERROR(codec::decode_forward(blob, fwd));
+    for (auto& list : fwd)
+      for (auto& [term_id, tf] : list) {
+        q_update_term.bind(1, std::int64_t{-1}).bind(2, -static_cast<std::int64_t>(tf))
+            .bind(3, term_id).bind(4, std::int64_t{-1});
+        if (!q_update_term.step()) {
+          s = q_update_term.status();
+          q_update_term.reset();
+          return s.ok() ? Status::Corruption("forward index names missing term " + std::to_string(term_id)) : s;
+        }
+        if (q_update_term.i64(1) == 0) --counters.terms;
+        q_update_term.reset();
+        --counters.postings;
+      }
+    LODE_RETURN_IF_ERROR(q_kill_doc.bind(1, std::int64_t{d.id}).run());
+    LODE_RETURN_IF_ERROR(q_delete_text.bind(1, std::int64_t{d.id}).run());
+    LODE_RETURN_IF_ERROR(q_delete_fwd.bind(1, std::int64_t{d.id}).run());
+    auto chunk = norms_chunk(d.id / codec::kNormsPerChunk);
+    if (!chunk) return chunk.status();
+    codec::put_norm(**chunk, d.id % codec::kNormsPerChunk, codec::NormEntry{false, d.len});
+    --counters.documents;
+    ++counters.dead_documents;
+    for (std::size_t f = 0; f < kFieldCount; ++f) counters.total_length[f] -= d.len[f];
+  }
+  return Status();
+}
+
+Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d) {
+  DocId id = static_cast<DocId>(counters.next_doc_id++);
+  if (first_pending == 0) first_pending = id;
+  PendingDoc pd{id, {}};
+  std::array<std::uint32_t, kFieldCount> len{};
+  const std::string* text[kFieldCount] = {&d.title, &d.body};
+  for (Field f : kAllFields) {
+    auto fi = static_cast<std::size_t>(f);
+    auto analyzed = analyzer->analyze(*text[fi]);
+    len[fi] = static_cast<std::uint32_t>(analyzed.tokens.size());
+    // Group this field's tokens by term, keeping positions in order.
+    std::unordered_map<std::string_view, std::vector<std::uint32_t>> by_term;
+    for (auto& t : analyzed.tokens) by_term[t.term].push_back(t.position);
+    for (auto& [term, positions] : by_term) {
+      std::string key(1, static_cast<char>(f));
+      key.append(term);
+      auto [it, fresh] = slot_of.try_emplace(std::move(key), static_cast<std::uint32_t>(terms.size()));
+      if (fresh) {
+        terms.push_back(TermBuf{f, std::string(term), {}, {}, {}, {}, {}});
+        batch_estimate += 2 * term.size() + 160;
+      }
+      TermBuf& tb = terms[it->second];
+      auto tf = static_cast<std::uint32_t>(positions.size());
+      tb.docs.push_back(id);
+      tb.tfs.push_back(tf);
+      tb.lengths.push_back(len[fi]);
+      std::size_t before = tb.positions.size();
+      codec::encode_positions(tb.positions, positions);
+      tb.pos_end.push_back(static_cast<std::uint32_t>(tb.positions.size()));
+      batch_estimate += 24 + (tb.positions.size() - before);
+      pd.slots.emplace_back(it->second, tf);
+    }
+  }
+  batch_estimate += 8 * pd.slots.size() + 64;
+  pending.push_back(std::move(pd));
+
+  LODE_RETURN_IF_ERROR(q_insert_doc.bind(1, std::int64_t{id}).bind(2, file_id).bind(3, d.external_id)
+                           .bind(4, d.title).bind(5, d.kind).bind(6, std::int64_t{len[0]})
+                           .bind(7, std::int64_t{len[1]}).run());
+  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, codec::compress_text(d.title))
+                           .bind_blob(3, codec::compress_text(d.body)).run());
+  auto chunk = norms_chunk(id / codec::kNormsPerChunk);
+  if (!chunk) return chunk.status();
+  codec::put_norm(**chunk, id % codec::kNormsPerChunk, codec::NormEntry{true, len});
+  ++counters.documents;
+  for (std::size_t f = 0; f < kFieldCount; ++f) counters.total_length[f] += len[f];
+  return Status();
+}
+
+// Appends a term's batch postings after its existing last block, refilling
+// that block if it is not full, so blocks stay dense across batches.
+Status IndexWriter::Impl::write_term(TermBuf& t, TermId id) {
+  codec::Block block;
+  std::string positions;
+  std::vector<std::uint32_t> old_pos_end;
+  std::uint32_t old_min_len = UINT32_MAX;
+  q_last_block.bind(1, id);
+  if (q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
+    auto first = static_cast<DocId>(q_last_block.i64(0));
+    auto n = static_cast<std::uint32_t>(q_last_block.i64(1));
+    old_min_len = static_cast<std::uint32_t>(q_last_block.i64(3));
+    Status s = codec::decode_block(q_last_block.blob(4), first, n, block);
+    q_last_block.reset();
+    LODE_RETURN_IF_ERROR(s);
+    q_get_positions.bind(1, id).bind(2, std::int64_t{first});
+    if (q_get_positions.step()) positions = std::string(q_get_positions.blob(0));
+    s = q_get_positions.status();
+    q_get_positions.reset();
+    LODE_RETURN_IF_ERROR(s);
+    std::vector<std::uint32_t> starts;
+    LODE_RETURN_IF_ERROR(codec::split_positions(positions, block.tfs, starts));
+    for (std::size_t i = 1; i < starts.size(); ++i) old_pos_end.push_back(starts[i]);
+    old_pos_end.push_back(static_cast<std::uint32_t>(positions.size()));
+  } else {
+    Status s = q_last_block.status();
+    q_last_block.reset();
+    LODE_RETURN_IF_ERROR(s);
+  }
+  // Unified view: old docs (from the partial block) then the batch's docs.
+  std::size_t n_old = block.docs.size();
+  std::size_t total = n_old + t.docs.size();
+  auto doc_at = [&](std::size_t i) { return i < n_old ? block.docs[i] : t.docs[i - n_old]; };
+  auto tf_at = [&](std::size_t i) { return i < n_old ? block.tfs[i] : t.tfs[i - n_old]; };
+  auto pos_range = [&](std::size_t i) -> std::string_view {
+    if (i < n_old) {
+      std::uint32_t b = i == 0 ? 0 : old_pos_end[i - 1];
+      return std::string_view(positions).substr(b, old_pos_end[i] - b);
+    }
+    std::size_t j = i - n_old;
+    std::uint32_t b = j == 0 ? 0 : t.pos_end[j - 1];
+    return std::string_view(t.positions).substr(b, t.pos_end[j] - b);
+  };
+  for (std::size_t start = 0; start < total; start += kBlockSize) {
+    std::size_t end = std::min(total, start + kBlockSize);
+    codec::Block out;
+    std::string pos_blob;
+    std::uint32_t max_tf = 0, min_len = start == 0 && n_old > 0 ? old_min_len : UINT32_MAX;
+    for (std::size_t i = start; i < end; ++i) {
+      out.docs.push_back(doc_at(i));
+      out.tfs.push_back(tf_at(i));
+      max_tf = std::max(max_tf, tf_at(i));
+      if (i >= n_old) min_len = std::min(min_len, t.lengths[i - n_old]);
+      pos_blob.append(pos_range(i));
+    }
+    LODE_RETURN_IF_ERROR(q_put_block.bind(1, id).bind(2, std::int64_t{out.docs.front()})
+                             .bind(3, std::int64_t{out.docs.back()}).bind(4, static_cast<std::int64_t>(out.docs.size()))
+                             .bind(5, std::int64_t{max_tf}).bind(6, std::int64_t{min_len})
+                             .bind_blob(7, codec::encode_block(out)).run());
+    LODE_RETURN_IF_ERROR(q_put_positions.bind(1, id).bind(2, std::int64_t{out.docs.front()}).bind_blob(3, pos_blob).run());
+  }
+  std::int64_t cf = 0;
+  for (auto tf : t.tfs) cf += tf;
+  auto df = static_cast<std::int64_t>(t.docs.size());
+  q_update_term.bind(1, df).bind(2, cf).bind(3, id).bind(4, df);
+  if (!q_update_term.step()) {
+    Status s = q_update_term.status();
+    q_update_term.reset();
+    return s.ok() ? Status::Corruption("term " + std::to_string(id) + " vanished") : s;
+  }
+  if (q_update_term.i64(0) == 0) ++counters.terms;  // df before this batch
+  q_update_term.reset();
+  counters.postings += t.docs.size();
+  return Status();
+}
+
+Status IndexWriter::Impl::flush() {
+  if (!in_txn) return Status();
+  // 1. Term ids for every term of the batch.
+  std::vector<std::pair<TermId, std::uint32_t>> order;  // (term id, slot)
+  order.reserve(terms.size());
+  for (std::uint32_t slot = 0; slot < terms.size(); ++slot) {
+    auto& t = terms[slot];
+    q_find_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term);
+    TermId id = 0;
+    if (q_find_term.step()) id = q_find_term.i64(0);
+    Status s = q_find_term.status();
+    q_find_term.reset();
+    LODE_RETURN_IF_ERROR(s);
+    if (id == 0) {
+      LODE_RETURN_IF_ERROR(q_insert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).run());
+      id = db.last_insert_rowid();
+    }
+    order.emplace_back(id, slot);
+  }
+  std::vector<TermId> id_of(terms.size());
+  for (auto& [id, slot] : order) id_of[slot] = id;
+  // 2. Postings, in term id order for B-tree locality.
+  std::sort(order.begin(), order.end());
+  for (auto& [id, slot] : order) LODE_RETURN_IF_ERROR(write_term(terms[slot], id));
+  // 3. Forward index of the batch's documents.
+  for (auto& pd : pending) {
+    std::vector<codec::ForwardList> per_field(kFieldCount);
+    for (auto& [slot, tf] : pd.slots)
+      per_field[static_cast<std::size_t>(terms[slot].field)].emplace_back(id_of[slot], tf);
+    for (auto& l : per_field) std::sort(l.begin(), l.end());
+    LODE_RETURN_IF_ERROR(q_put_fwd.bind(1, std::int64_t{pd.id}).bind_blob(2, codec::encode_forward(per_field)).run());
+  }
+  // 4. Norms and counters.
+  for (auto& [chunk, data] : dirty_norms)
+    LODE_RETURN_IF_ERROR(q_put_norms.bind(1, std::int64_t{chunk}).bind_blob(2, data).run());
+  LODE_RETURN_IF_ERROR(schema::store_counters(db, counters));
+  LODE_RETURN_IF_ERROR(db.exec("COMMIT"));
+  in_txn = false;
+  slot_of.clear();
+  terms.clear();
+  pending.clear();
+  dirty_norms.clear();
+  batch_estimate = 0;
+  first_pending = 0;
+  return Status();
+}
+
+IndexWriter::IndexWriter(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+
+IndexWriter::~IndexWriter() {
+  if (impl_ && impl_->in_txn) (void)impl_->db.exec("ROLLBACK");
+}
+
+Result<std::unique_ptr<IndexWriter>> IndexWriter::open(const std::string& path,
+                                                       const std::optional<IndexSettings>& settings,
+                                                       const WriterOptions& options) {
+  auto impl = std::make_unique<Impl>();
+  impl->options = options;
+  auto lock = WriterLock::acquire(path);
+  if (!lock) return lock.status();
+  impl->lock.emplace(std::move(lock.value()));
+  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
+  if (!db) return db.status();
+  impl->db = std::move(db.value());
+  auto have = schema::exists(impl->db);
+  if (!have) return have.status();
+  if (!*have) {
+    LODE_RETURN_IF_ERROR(impl->db.exec("PRAGMA page_size=8192"));
+    LODE_RETURN_IF_ERROR(schema::configure(impl->db, true));
+    LODE_RETURN_IF_ERROR(impl->db.exec("BEGIN IMMEDIATE"));
+    LODE_RETURN_IF_ERROR(schema::create(impl->db, settings.value_or(IndexSettings{})));
+    LODE_RETURN_IF_ERROR(impl->db.exec("COMMIT"));
+  } else {
+    LODE_RETURN_IF_ERROR(schema::configure(impl->db, true));
+  }
+  auto recorded = schema::load_settings(impl->db);
+  if (!recorded) return recorded.status();
+  impl->settings = recorded.value();
+  if (settings && (settings->analyzer.language != impl->settings.analyzer.language ||
+                   settings->analyzer.stopwords != impl->settings.analyzer.stopwords))
+    return Status::InvalidArgument(
+        path + " was created with language '" + impl->settings.analyzer.language + "' and stopwords " +
+        (impl->settings.analyzer.stopwords ? "on" : "off") +
+        "; analyzer settings are fixed at creation (make a new index to change them)");
+  auto analyzer = Analyzer::create(impl->settings.analyzer);
+  if (!analyzer) return analyzer.status();
+  impl->analyzer = std::move(analyzer.value());
+  auto counters = schema::load_counters(impl->db);
+  if (!counters) return counters.status();
+  impl->counters = counters.value();
+  LODE_RETURN_IF_ERROR(impl->prepare_all());
+  return std::unique_ptr<IndexWriter>(new IndexWriter(std::move(impl)));
+}
+
+const IndexSettings& IndexWriter::settings() const { return impl_->settings; }
+
+namespace {
+FileRecord file_from(sql::Stmt& q) {
+  return FileRecord{std::string(q.text(1)), std::string(q.text(2)), q.i64(3), q.i64(4),
+                    std::string(q.text(5)), std::string(q.text(6))};
+}
+}  // namespace
+
+Result<std::optional<FileRecord>> IndexWriter::file(const std::string& path) {
+  auto& q = impl_->q_file;
+  q.bind(1, path);
+  std::optional<FileRecord> out;
+  if (q.step()) out = file_from(q);
+  Status s = q.status();
+  q.reset();
+  if (!s.ok()) return s;
+  return out;
+}
+
+Result<std::vector<FileRecord>> IndexWriter::files_with_prefix(const std::string& prefix) {
+  auto q = impl_->db.prepare(
+      "SELECT file_id, path, root, size, mtime_ns, hash, kind FROM files "
+      "WHERE substr(path, 1, length(?1)) = ?1 ORDER BY path");
+  if (!q) return q.status();
+  q->bind(1, prefix);
+  std::vector<FileRecord> out;
+  while (q->step()) out.push_back(file_from(*q));
+  if (!q->status().ok()) return q->status();
+  return out;
+}
+
+Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentInput>& documents) {
+  auto& m = *impl_;
+  LODE_RETURN_IF_ERROR(m.begin());
+  m.q_file.bind(1, file.path);
+  std::int64_t file_id = 0;
+  if (m.q_file.step()) file_id = m.q_file.i64(0);
+  Status s = m.q_file.status();
+  m.q_file.reset();
+  LODE_RETURN_IF_ERROR(s);
+  if (file_id != 0) {
+    LODE_RETURN_IF_ERROR(m.remove_docs_of(file_id));
+    LODE_RETURN_IF_ERROR(m.begin());  // remove_docs_of may have flushed
+    LODE_RETURN_IF_ERROR(m.q_update_file.bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns)
+                             .bind(4, file.hash).bind(5, file.kind).bind(6, file_id).run());
+  } else {
+    LODE_RETURN_IF_ERROR(m.q_insert_file.bind(1, file.path).bind(2, file.root).bind(3, file.size)
+                             .bind(4, file.mtime_ns).bind(5, file.hash).bind(6, file.kind).run());
+    file_id = m.db.last_insert_rowid();
+    ++m.counters.files;
+  }
+  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(file_id, d));
+  bool by_size = m.batch_estimate >= m.options.batch_bytes;
+  bool by_count = m.options.batch_documents != 0 && m.pending.size() >= m.options.batch_documents;
+  if (by_size || by_count) return m.flush();
+  return Status();
+}
+
+Status IndexWriter::touch_file(const FileRecord& file) {
+  auto& m = *impl_;
+  LODE_RETURN_IF_ERROR(m.begin());
+  auto q = m.db.prepare("UPDATE files SET root=?, size=?, mtime_ns=? WHERE path=?");
+  if (!q) return q.status();
+  LODE_RETURN_IF_ERROR(q->bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns).bind(4, file.path).run());
+  if (sqlite3_changes(m.db.raw()) == 0) return Status::NotFound(file.path + ": not in the index");
+  return Status();
+}
+
+Status IndexWriter::remove_file(const std::string& path) {
+  auto& m = *impl_;
+  auto rec = file(path);
+  if (!rec) return rec.status();
+  if (!rec->has_value()) return Status::NotFound(path + ": not in the index");
+  LODE_RETURN_IF_ERROR(m.begin());
+  m.q_file.bind(1, path);
+  std::int64_t file_id = 0;
+  if (m.q_file.step()) file_id = m.q_file.i64(0);
+  m.q_file.reset();
+  LODE_RETURN_IF_ERROR(m.remove_docs_of(file_id));
+  LODE_RETURN_IF_ERROR(m.begin());
+  LODE_RETURN_IF_ERROR(m.q_delete_file.bind(1, file_id).run());
+  --m.counters.files;
+  return Status();
+}
+
+Status IndexWriter::commit() {
+  if (!impl_->in_txn) return Status();
+  return impl_->flush();
+}
+
+CollectionStats IndexWriter::stats() const {
+  const auto& c = impl_->counters;
+  CollectionStats s;
+  s.documents = c.documents;
+  s.total_length = c.total_length;
+  s.files = c.files;
+  s.terms = c.terms;
+  s.postings = c.postings;
+  s.dead_documents = c.dead_documents;
+  s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
+  return s;
+}
+
+}  // namespace lode

@@ -1,0 +1,92 @@
+#include <cctype>
+
+#include "lode/query.h"
+
+namespace lode {
+namespace {
+
+bool is_space(char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; }
+
+// One item of the query as typed, before analysis.
+struct RawItem {
+  Occur occur = Occur::kShould;
+  std::optional<Field> field;
+  bool quoted = false;
+  std::string_view text;
+  std::string_view typed;
+};
+
+std::vector<RawItem> split_items(std::string_view q) {
+  std::vector<RawItem> items;
+  std::size_t i = 0;
+  while (i < q.size()) {
+    while (i < q.size() && is_space(q[i])) ++i;
+    if (i >= q.size()) break;
+    std::size_t start = i;
+    RawItem item;
+    if (q[i] == '+' || q[i] == '-') {
+      item.occur = q[i] == '+' ? Occur::kMust : Occur::kMustNot;
+      ++i;
+    }
+    // field:  — only a known field name directly followed by ':'
+    std::size_t j = i;
+    while (j < q.size() && std::isalpha(static_cast<unsigned char>(q[j]))) ++j;
+    if (j < q.size() && q[j] == ':' && j > i) {
+      if (auto f = parse_field(q.substr(i, j - i))) {
+        item.field = f;
+        i = j + 1;
+      }
+    }
+    if (i < q.size() && q[i] == '"') {
+      item.quoted = true;
+      std::size_t close = q.find('"', i + 1);
+      std::size_t end = close == std::string_view::npos ? q.size() : close;
+      item.text = q.substr(i + 1, end - i - 1);
+      i = close == std::string_view::npos ? q.size() : close + 1;
+    } else {
+      std::size_t end = i;
+      while (end < q.size() && !is_space(q[end])) ++end;
+      item.text = q.substr(i, end - i);
+      i = end;
+    }
+    item.typed = q.substr(start, i - start);
+    items.push_back(item);
+  }
+  return items;
+}
+
+}  // namespace
+
+Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits) {
+  if (text.size() > limits.max_bytes)
+    return Status::Limit("query is " + std::to_string(text.size()) + " bytes; the limit is " +
+                         std::to_string(limits.max_bytes));
+  if (!is_valid_utf8(text)) return Status::InvalidArgument("query is not valid UTF-8");
+  Query query;
+  std::size_t total_words = 0;
+  for (const RawItem& item : split_items(text)) {
+    auto analyzed = analyzer.analyze(item.text);
+    total_words += analyzed.tokens.size();
+    if (total_words > limits.max_terms)
+      return Status::Limit("query has more than " + std::to_string(limits.max_terms) +
+                           " words; the limit is " + std::to_string(limits.max_terms));
+    if (analyzed.tokens.empty()) {
+      if (!item.text.empty())
+        query.warnings.push_back("'" + std::string(item.typed) + "' has no searchable words (stopwords or punctuation) and was left out");
+      continue;
+    }
+    bool as_phrase = item.quoted || (item.occur != Occur::kShould && analyzed.tokens.size() > 1);
+    if (as_phrase && analyzed.tokens.size() > 1) {
+      Clause c{item.occur, true, item.field, {}, std::string(item.typed)};
+      std::uint32_t base = analyzed.tokens.front().position;
+      for (auto& t : analyzed.tokens) c.words.push_back({t.term, t.position - base});
+      query.clauses.push_back(std::move(c));
+    } else {
+      for (auto& t : analyzed.tokens)
+        query.clauses.push_back(Clause{item.occur, false, item.field, {{t.term, 0}}, std::string(item.typed)});
+    }
+  }
+  return query;
+}
+
+}  // namespace lode

@@ -1,0 +1,119 @@
+#include "ranking/scorer.h"
+
+#include <cmath>
+
+namespace lode::rank {
+
+Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms)
+    : reader_(reader), options_(options), terms_(terms), stats_(reader.stats()) {
+  auto n = static_cast<double>(stats_.documents);
+  if (options.model == Model::kBm25) {
+    for (auto& t : terms_) {
+      t.idf = t.info ? bm25_idf(n, static_cast<double>(t.info->df)) : 0;
+      t.query_weight = t.qtf;
+    }
+    return;
+  }
+  // TF-IDF: one query vector per field, normalised on its own.
+  const SmartWeighting& w = options.smart;
+  for (Field f : kAllFields) {
+    double max_qtf = 0, sum_qtf = 0, count = 0, length = 0;
+    for (auto& t : terms_)
+      if (t.field == f) {
+        max_qtf = std::max(max_qtf, t.qtf);
+        sum_qtf += t.qtf;
+        length += t.qtf;
+        ++count;
+      }
+    double avg_qtf = count > 0 ? sum_qtf / count : 0;
+    double sum_sq = 0;
+    for (auto& t : terms_) {
+      if (t.field != f) continue;
+      double df = t.info ? static_cast<double>(t.info->df) : 0;
+      t.idf = smart_idf(w.query_idf, n, df, w.log_base);
+      t.query_weight = df > 0 ? smart_tf(w.query_tf, t.qtf, max_qtf, avg_qtf, length, w.log_base) * t.idf : 0;
+      sum_sq += t.query_weight * t.query_weight;
+    }
+    if (w.query_norm == 'c' && sum_sq > 0)
+      for (auto& t : terms_)
+        if (t.field == f) t.query_weight /= std::sqrt(sum_sq);
+  }
+}
+
+Result<std::uint64_t> Scorer::df_of(TermId id) {
+  auto it = df_cache_.find(id);
+  if (it != df_cache_.end()) return it->second;
+  auto info = reader_.term_by_id(id);
+  if (!info) return info.status();
+  df_cache_.emplace(id, info->df);
+  return info->df;
+}
+
+// Norm, max tf and average tf of a document field's SMART vector, from the
+// forward index (so any document-side weighting works without re-indexing).
+Result<Scorer::DocVector> Scorer::doc_vector(DocId doc, Field field) {
+  const SmartWeighting& w = options_.smart;
+  DocVector v;
+  auto fwd = reader_.forward(doc, field);
+  if (!fwd) return fwd.status();
+  double sum_tf = 0, length = reader_.length(doc, field);
+  for (auto& [id, tf] : *fwd) {
+    v.max_tf = std::max(v.max_tf, static_cast<double>(tf));
+    sum_tf += tf;
+  }
+  v.avg_tf = fwd->empty() ? 0 : sum_tf / static_cast<double>(fwd->size());
+  if (w.doc_norm != 'c') return v;
+  double n = static_cast<double>(stats_.documents), sum_sq = 0;
+  for (auto& [id, tf] : *fwd) {
+    double idf = 1;
+    if (w.doc_idf != 'n') {
+      auto df = df_of(id);
+      if (!df) return df.status();
+      idf = smart_idf(w.doc_idf, n, static_cast<double>(*df), w.log_base);
+    }
+    double x = smart_tf(w.doc_tf, tf, v.max_tf, v.avg_tf, length, w.log_base) * idf;
+    sum_sq += x * x;
+  }
+  v.norm = sum_sq > 0 ? std::sqrt(sum_sq) : 1;
+  return v;
+}
+
+Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
+                             std::vector<TermContribution>* out) {
+  double total = 0;
+  std::optional<DocVector> vec[kFieldCount];
+  const bool bm25 = options_.model == Model::kBm25;
+  const SmartWeighting& w = options_.smart;
+  double n = static_cast<double>(stats_.documents);
+  for (std::size_t i = 0; i < terms_.size(); ++i) {
+    if (tfs[i] == 0) continue;
+    const ScoringTerm& t = terms_[i];
+    auto fi = static_cast<std::size_t>(t.field);
+    double fw = options_.field_weight[fi];
+    std::uint32_t len = reader_.length(doc, t.field);
+    double avg = stats_.average_length(t.field);
+    double tf_part, contribution;
+    if (bm25) {
+      tf_part = bm25_tf_part(tfs[i], len, avg, options_.bm25);
+      contribution = fw * t.query_weight * t.idf * tf_part;
+    } else {
+      if (!vec[fi]) {
+        auto v = doc_vector(doc, t.field);
+        if (!v) return v.status();
+        vec[fi] = *v;
+      }
+      double df = static_cast<double>(t.info->df);
+      double doc_idf = smart_idf(w.doc_idf, n, df, w.log_base);
+      tf_part = smart_tf(w.doc_tf, tfs[i], vec[fi]->max_tf, vec[fi]->avg_tf, len, w.log_base) * doc_idf /
+                vec[fi]->norm;
+      contribution = fw * t.query_weight * tf_part;
+    }
+    total += contribution;
+    if (out)
+      out->push_back(TermContribution{t.term, t.field, tfs[i], t.info->df, t.idf, len, avg, tf_part,
+                                      t.query_weight, fw, contribution});
+  }
+  return total;
+}
+
+}  // namespace lode::rank

@@ -1,0 +1,47 @@
+// Per-query scoring state: one entry per (term, field) the query ranks by,
+// with its collection statistics and query-side weight. The same score()
+// computes ranking scores and breakdowns, so the two always agree.
+#pragma once
+
+#include <unordered_map>
+#include <vector>
+
+#include "lode/index.h"
+#include "lode/ranking.h"
+
+namespace lode::rank {
+
+struct ScoringTerm {
+  std::string term;
+  Field field = Field::kBody;
+  std::optional<TermInfo> info;  // nullopt: not in the index
+  double qtf = 0;                // occurrences in the query
+  double idf = 0;                // BM25 idf, or the query-side SMART idf
+  double query_weight = 0;       // BM25: qtf; TF-IDF: normalised query weight
+};
+
+class Scorer {
+ public:
+  // Fills idf and query_weight of `terms` for the chosen model.
+  Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms);
+
+  // Score of `doc` where tfs[i] is the tf of terms[i] in it (0 = absent).
+  // When `out` is given, appends one entry per term with tf > 0, in term order.
+  Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs,
+                       std::vector<TermContribution>* out);
+
+ private:
+  struct DocVector {
+    double norm = 1, max_tf = 0, avg_tf = 0;
+  };
+  Result<DocVector> doc_vector(DocId doc, Field field);
+  Result<std::uint64_t> df_of(TermId id);
+
+  IndexReader& reader_;
+  const SearchOptions& options_;
+  std::vector<ScoringTerm>& terms_;
+  CollectionStats stats_;
+  std::unordered_map<TermId, std::uint64_t> df_cache_;
+};
+
+}  // namespace lode::rank

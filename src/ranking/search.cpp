@@ -1,0 +1,224 @@
+// Searcher: parse, gather scoring terms, walk the union of their postings in
+// document order (exhaustive document-at-a-time), keep the top k, explain them.
+#include <algorithm>
+#include <map>
+#include <queue>
+#include <unordered_set>
+
+#include "lode/ranking.h"
+#include "ranking/constraint.h"
+#include "ranking/scorer.h"
+#include "ranking/snippet.h"
+
+namespace lode {
+
+struct Searcher::Impl {
+  IndexReader& reader;
+  std::unique_ptr<Analyzer> analyzer;
+
+  struct Plan {
+    Query query;
+    std::vector<rank::ScoringTerm> terms;
+    std::vector<rank::ClauseMatcher> required, excluded;
+  };
+  Result<Plan> plan(std::string_view text, const SearchOptions& options);
+  Status fill_hit(Hit& hit, Plan& plan, rank::Scorer& scorer, const std::vector<std::uint32_t>& tfs,
+                  const SearchOptions& options);
+};
+
+namespace {
+
+Status check_options(const SearchOptions& o) {
+  if (!(o.bm25.k1 >= 0) || o.bm25.k1 > 1000) return Status::InvalidArgument("k1 must be between 0 and 1000");
+  if (!(o.bm25.b >= 0 && o.bm25.b <= 1)) return Status::InvalidArgument("b must be between 0 and 1");
+  for (double w : o.field_weight)
+    if (!(w >= 0) || w > 1e6) return Status::InvalidArgument("field weights must be between 0 and 1e6");
+  if (!(o.smart.log_base > 1)) return Status::InvalidArgument("log base must be greater than 1");
+  return Status();
+}
+
+struct Candidate {
+  double score;
+  DocId doc;
+  std::vector<std::uint32_t> tfs;
+};
+// Better(a, b): a ranks above b (higher score, then lower doc id). With it the
+// priority queue keeps the worst kept candidate on top, ready to be replaced.
+struct Better {
+  bool operator()(const Candidate& a, const Candidate& b) const {
+    return a.score != b.score ? a.score > b.score : a.doc < b.doc;
+  }
+};
+
+}  // namespace
+
+Result<Searcher::Impl::Plan> Searcher::Impl::plan(std::string_view text, const SearchOptions& options) {
+  Plan p;
+  auto q = parse_query(text, *analyzer, options.limits);
+  if (!q) return q.status();
+  p.query = std::move(q.value());
+  std::map<std::pair<Field, std::string>, double> qtf;  // ordered: deterministic term order
+  for (const Clause& c : p.query.clauses) {
+    if (c.occur == Occur::kMustNot) continue;
+    for (const QueryWord& w : c.words)
+      for (Field f : kAllFields)
+        if (!c.field || *c.field == f) qtf[{f, w.term}] += 1;
+  }
+  for (auto& [key, count] : qtf) {
+    if (options.field_weight[static_cast<std::size_t>(key.first)] == 0) continue;
+    rank::ScoringTerm t;
+    t.field = key.first;
+    t.term = key.second;
+    t.qtf = count;
+    auto info = reader.term(key.first, key.second);
+    if (!info) return info.status();
+    if (info->has_value() && (*info)->df > 0) t.info = **info;
+    p.terms.push_back(std::move(t));
+  }
+  for (const Clause& c : p.query.clauses) {
+    if (c.occur == Occur::kShould && !c.phrase) continue;
+    auto m = rank::ClauseMatcher::create(reader, c);
+    if (!m) return m.status();
+    (c.occur == Occur::kMustNot ? p.excluded : p.required).push_back(std::move(m.value()));
+  }
+  return p;
+}
+
+Status Searcher::Impl::fill_hit(Hit& hit, Plan& plan, rank::Scorer& scorer,
+                                const std::vector<std::uint32_t>& tfs, const SearchOptions& options) {
+  auto info = reader.document(hit.doc);
+  if (!info) return info.status();
+  hit.external_id = info->external_id;
+  hit.title = info->title;
+  hit.kind = info->kind;
+  hit.path = info->path;
+  if (options.breakdown) {
+    auto s = scorer.score(hit.doc, tfs, &hit.breakdown);
+    if (!s) return s.status();
+    hit.score = *s;
+  }
+  if (options.snippets) {
+    auto body = reader.stored_text(hit.doc, Field::kBody);
+    if (!body) return body.status();
+    std::unordered_set<std::string> words;
+    for (auto& t : plan.terms) words.insert(t.term);
+    hit.snippet = rank::make_snippet(*body, *analyzer, words);
+  }
+  return Status();
+}
+
+Searcher::Searcher(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+Searcher::~Searcher() = default;
+
+Result<std::unique_ptr<Searcher>> Searcher::create(IndexReader& reader) {
+  auto analyzer = Analyzer::create(reader.settings().analyzer);
+  if (!analyzer) return analyzer.status();
+  return std::unique_ptr<Searcher>(new Searcher(std::make_unique<Impl>(Impl{reader, std::move(analyzer.value())})));
+}
+
+Result<SearchResults> Searcher::search(std::string_view text, const SearchOptions& options) {
+  LODE_RETURN_IF_ERROR(check_options(options));
+  auto& reader = impl_->reader;
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  auto plan = impl_->plan(text, options);
+  if (!plan) return plan.status();
+  SearchResults results;
+  results.warnings = plan->query.warnings;
+  auto& terms = plan->terms;
+  rank::Scorer scorer(reader, options, terms);
+
+  std::vector<std::unique_ptr<PostingCursor>> cursors(terms.size());
+  for (std::size_t i = 0; i < terms.size(); ++i)
+    if (terms[i].info) cursors[i] = reader.postings(*terms[i].info);
+
+  const std::size_t keep = options.offset + options.top;
+  std::priority_queue<Candidate, std::vector<Candidate>, Better> heap;
+  std::vector<std::uint32_t> tfs(terms.size());
+  while (true) {
+    DocId doc = 0;
+    bool any = false;
+    for (auto& c : cursors)
+      if (c && c->valid() && (!any || c->doc() < doc)) {
+        doc = c->doc();
+        any = true;
+      }
+    if (!any) break;
+    for (std::size_t i = 0; i < cursors.size(); ++i) {
+      auto& c = cursors[i];
+      tfs[i] = 0;
+      if (c && c->valid() && c->doc() == doc) {
+        tfs[i] = c->tf();
+        c->next();
+      }
+    }
+    if (!reader.live(doc)) continue;
+    bool ok = true;
+    for (auto& m : plan->required) {
+      auto r = m.contains(doc);
+      if (!r) return r.status();
+      if (!*r) { ok = false; break; }
+    }
+    for (auto& m : plan->excluded) {
+      if (!ok) break;
+      auto r = m.contains(doc);
+      if (!r) return r.status();
+      if (*r) ok = false;
+    }
+    if (!ok) continue;
+    auto score = scorer.score(doc, tfs, nullptr);
+    if (!score) return score.status();
+    ++results.matched;
+    if (keep == 0) continue;
+    if (heap.size() < keep) {
+      heap.push(Candidate{*score, doc, tfs});
+    } else if (Better()(Candidate{*score, doc, {}}, heap.top())) {
+      heap.pop();
+      heap.push(Candidate{*score, doc, tfs});
+    }
+  }
+  for (auto& c : cursors)
+    if (c && !c->status().ok()) return c->status();
+
+  std::vector<Candidate> ranked;
+  while (!heap.empty()) {
+    ranked.push_back(std::move(const_cast<Candidate&>(heap.top())));
+    heap.pop();
+  }
+  std::reverse(ranked.begin(), ranked.end());
+  for (std::size_t i = options.offset; i < ranked.size(); ++i) {
+    Hit hit;
+    hit.doc = ranked[i].doc;
+    hit.score = ranked[i].score;
+    LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, ranked[i].tfs, options));
+    results.hits.push_back(std::move(hit));
+  }
+  return results;
+}
+
+Result<Hit> Searcher::explain(std::string_view text, DocId doc, const SearchOptions& options) {
+  LODE_RETURN_IF_ERROR(check_options(options));
+  auto& reader = impl_->reader;
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  auto plan = impl_->plan(text, options);
+  if (!plan) return plan.status();
+  rank::Scorer scorer(reader, options, plan->terms);
+  std::vector<std::uint32_t> tfs(plan->terms.size());
+  for (std::size_t i = 0; i < plan->terms.size(); ++i) {
+    if (!plan->terms[i].info) continue;
+    auto c = reader.postings(*plan->terms[i].info);
+    c->seek(doc);
+    if (!c->status().ok()) return c->status();
+    if (c->valid() && c->doc() == doc) tfs[i] = c->tf();
+  }
+  Hit hit;
+  hit.doc = doc;
+  auto score = scorer.score(doc, tfs, nullptr);
+  if (!score) return score.status();
+  hit.score = *score;
+  LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, tfs, options));
+  return hit;
+}
+
+}  // namespace lode
