@@ -1,0 +1,87 @@
+// BM25 against hand computation from the published formula: Robertson &
+// Zaragoza, "The Probabilistic Relevance Framework: BM25 and Beyond" (2009),
+// eq. for w(tf) with k1, b and the RSJ idf; lode uses idf = ln(1 + (N-df+0.5)/(df+0.5)).
+#include <cmath>
+
+#include "util.h"
+
+using namespace lode;
+using namespace lode::test;
+
+TEST_CASE("BM25 scores equal a hand computation, including a term with df > N/2") {
+  // Four documents, no stemming or stopwords, titles empty. Lengths 4, 2, 6, 3.
+  TempDir dir;
+  std::string path = dir.str("bm25.sqlite");
+  build_index(path,
+              {{"", "tide gauge tide log"}, {"", "tide chart"}, {"", "lamp lamp lamp oil wick tide"}, {"", "fog horn log"}},
+              AnalyzerOptions{"none", false});
+  auto reader = IndexReader::open(path);
+  REQUIRE(reader.ok());
+  const double n = 4, avgdl = (4 + 2 + 6 + 3) / 4.0;
+  const double k1 = 1.2, b = 0.75;
+  auto part = [&](double tf, double dl) { return tf * (k1 + 1) / (tf + k1 * (1 - b + b * dl / avgdl)); };
+  // "tide": df = 3 > N/2. The raw RSJ weight log((N-df+0.5)/(df+0.5)) would be
+  // log(1.5/3.5) < 0; lode's form stays positive.
+  double idf_tide = std::log(1 + (n - 3 + 0.5) / (3 + 0.5));
+  double idf_log = std::log(1 + (n - 2 + 0.5) / (2 + 0.5));
+  CHECK(idf_tide > 0);
+  CHECK(std::log((n - 3 + 0.5) / (3 + 0.5)) < 0);
+  SearchOptions o;
+  o.field_weight = {0.0, 1.0};
+  auto s = scores_of(**reader, "tide log", o);
+  REQUIRE(s.size() == 4);
+  CHECK(std::abs(s["d1"] - (idf_tide * part(2, 4) + idf_log * part(1, 4))) < 1e-12);
+  CHECK(std::abs(s["d2"] - idf_tide * part(1, 2)) < 1e-12);
+  CHECK(std::abs(s["d3"] - idf_tide * part(1, 6)) < 1e-12);
+  CHECK(std::abs(s["d4"] - idf_log * part(1, 3)) < 1e-12);
+
+  SUBCASE("k1 and b are per query") {
+    SearchOptions p = o;
+    p.bm25 = {2.0, 0.0};  // b = 0: no length normalisation
+    auto t = scores_of(**reader, "lamp", p);
+    double idf_lamp = std::log(1 + (n - 1 + 0.5) / (1 + 0.5));
+    CHECK(std::abs(t["d3"] - idf_lamp * 3 * 3.0 / (3 + 2.0)) < 1e-12);
+  }
+  SUBCASE("repeated query words multiply the weight (qtf)") {
+    auto t = scores_of(**reader, "chart chart", o);
+    double idf_chart = std::log(1 + (n - 1 + 0.5) / (1 + 0.5));
+    CHECK(std::abs(t["d2"] - 2 * idf_chart * part(1, 2)) < 1e-12);
+  }
+}
+
+TEST_CASE("breakdown contributions sum to the score and carry the statistics") {
+  TempDir dir;
+  std::string path = dir.str("bd.sqlite");
+  build_index(path, {{"Storm log", "storm storm surge on the north quay"}, {"Kelp survey", "kelp beds after the storm"},
+                     {"Lamp", "the lamp burned all night"}});
+  auto reader = IndexReader::open(path);
+  REQUIRE(reader.ok());
+  auto searcher = Searcher::create(**reader);
+  REQUIRE(searcher.ok());
+  for (Model m : {Model::kBm25, Model::kTfIdf}) {
+    SearchOptions o;
+    o.model = m;
+    auto r = (*searcher)->search("storm kelp night", o);
+    REQUIRE(r.ok());
+    REQUIRE(r->hits.size() == 3);
+    for (auto& h : r->hits) {
+      double sum = 0;
+      for (auto& c : h.breakdown) sum += c.contribution;
+      CHECK(std::abs(sum - h.score) < 1e-9);
+      CHECK(!h.breakdown.empty());
+    }
+    const Hit* d1 = nullptr;
+    for (auto& h : r->hits)
+      if (h.external_id == "d1") d1 = &h;
+    REQUIRE(d1 != nullptr);
+    bool saw_title = false;
+    for (auto& c : d1->breakdown)
+      if (c.field == Field::kTitle && c.term == "storm") {
+        saw_title = true;
+        CHECK(c.tf == 1);
+        CHECK(c.df == 1);
+        CHECK(c.doc_length == 2);
+      }
+    CHECK(saw_title);
+  }
+}

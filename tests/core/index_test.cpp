@@ -1,0 +1,302 @@
+// Index writer/reader behaviour: incremental updates equal a fresh build,
+// exact statistics, bad files, a second writer, crashes and snapshots.
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include "index/codec.h"
+#include "lode/indexer.h"
+#include "util.h"
+
+using namespace lode;
+using namespace lode::test;
+
+namespace {
+
+IndexReport index_tree(const std::string& index, const std::string& root, WriterOptions wo = {}) {
+  auto w = IndexWriter::open(index, IndexSettings{}, wo);
+  REQUIRE_MESSAGE(w.ok(), w.status().to_string());
+  auto rep = index_paths(**w, {root}, IndexRunOptions{});
+  REQUIRE_MESSAGE(rep.ok(), rep.status().to_string());
+  return *rep;
+}
+
+// Everything observable about an index that must not depend on its history.
+struct Snapshot {
+  CollectionStats stats;
+  std::map<std::string, std::pair<std::uint64_t, std::uint64_t>> df_cf;  // field/term -> df, cf
+  std::map<std::string, std::map<std::string, double>> scores;          // query -> id -> score
+};
+
+Snapshot snapshot_of(const std::string& index, const std::vector<std::string>& vocabulary) {
+  Snapshot s;
+  auto reader = IndexReader::open(index);
+  REQUIRE(reader.ok());
+  {
+    auto scope = (*reader)->begin();
+    REQUIRE(scope.ok());
+    s.stats = (*reader)->stats();
+    for (auto& word : vocabulary)
+      for (Field f : kAllFields) {
+        auto t = (*reader)->term(f, word);
+        REQUIRE(t.ok());
+        if (t->has_value() && (*t)->df > 0)
+          s.df_cf[std::string(field_name(f)) + "/" + word] = {(*t)->df, (*t)->cf};
+      }
+  }
+  for (auto& q : {"storm kelp", "lamp oil wick", "\"north quay\"", "seal -storm", "+tide gauge"}) {
+    for (Model m : {Model::kBm25, Model::kTfIdf}) {
+      SearchOptions o;
+      o.model = m;
+      s.scores[std::string(q) + "/" + std::string(model_name(m))] = scores_of(**reader, q, o);
+    }
+  }
+  return s;
+}
+
+void check_same(const Snapshot& a, const Snapshot& b) {
+  CHECK(a.stats.documents == b.stats.documents);
+  CHECK(a.stats.total_length == b.stats.total_length);
+  CHECK(a.stats.terms == b.stats.terms);
+  CHECK(a.stats.postings == b.stats.postings);
+  CHECK(a.stats.files == b.stats.files);
+  CHECK(a.df_cf == b.df_cf);
+  REQUIRE(a.scores.size() == b.scores.size());
+  for (auto& [q, sa] : a.scores) {
+    CAPTURE(q);
+    const auto& sb = b.scores.at(q);
+    REQUIRE(sa.size() == sb.size());
+    for (auto& [id, score] : sa) {
+      CAPTURE(id);
+      REQUIRE(sb.count(id) == 1);
+      CHECK(std::abs(score - sb.at(id)) < 1e-12);
+    }
+  }
+}
+
+const std::vector<std::string> kVocabulary = {"storm", "kelp", "lamp", "oil", "wick", "north", "quay",
+                                              "seal", "tide", "gaug", "keeper", "surg"};
+
+}  // namespace
+
+TEST_CASE("edit, delete and add between runs: the index equals a fresh build of the same tree") {
+  TempDir dir;
+  auto tree = dir.path() / "tree";
+  write_file(tree / "a.txt", "Storm log\nthe storm surge reached the north quay at dawn");
+  write_file(tree / "b.md", "# Kelp survey\n\nKelp beds after the **storm**; seals on the skerry.");
+  write_file(tree / "c.txt", "Lamp notes\nlamp oil and a new wick for the lamp");
+  write_file(tree / "sub/d.jsonl",
+             "{\"id\":\"r1\",\"title\":\"Tide gauge\",\"text\":\"tide gauge read at noon\"}\n"
+             "{\"id\":\"r2\",\"title\":\"Seal count\",\"text\":\"seal pups on the north skerry\"}\n");
+  std::string inc = dir.str("inc.sqlite");
+  // Small batches so the run commits several times and refills partial blocks.
+  WriterOptions small;
+  small.batch_documents = 2;
+  auto first = index_tree(inc, tree.string(), small);
+  CHECK(first.added == 4);
+  CHECK(first.documents == 5);
+
+  auto again = index_tree(inc, tree.string(), small);
+  CHECK(again.unchanged == 4);
+  CHECK(again.added + again.updated + again.removed == 0);
+
+  write_file(tree / "a.txt", "Storm log\nno storm today; the keeper oiled the lamp");  // edit
+  fs::remove(tree / "c.txt");                                                          // delete
+  write_file(tree / "e.txt", "Quay repairs\nstones reset on the north quay after the storm surge");  // add
+  write_file(tree / "sub/d.jsonl",
+             "{\"id\":\"r1\",\"title\":\"Tide gauge\",\"text\":\"tide gauge read at noon and dusk\"}\n");
+  auto third = index_tree(inc, tree.string(), small);
+  CHECK(third.added == 1);
+  CHECK(third.updated == 2);
+  CHECK(third.removed == 1);
+
+  std::string fresh = dir.str("fresh.sqlite");
+  index_tree(fresh, tree.string());
+  auto a = snapshot_of(inc, kVocabulary);
+  auto b = snapshot_of(fresh, kVocabulary);
+  CHECK(a.stats.documents == 4);
+  CHECK(a.stats.dead_documents >= 3);
+  check_same(a, b);
+}
+
+TEST_CASE("many updates of one file keep df, cf and lengths exact") {
+  TempDir dir;
+  std::string index = dir.str("i.sqlite");
+  auto w = IndexWriter::open(index, IndexSettings{AnalyzerOptions{"none", false}});
+  REQUIRE(w.ok());
+  for (int round = 0; round < 300; ++round) {
+    FileRecord f{"/v/x", "/v", round, round, "h" + std::to_string(round), "text"};
+    std::string body = "alpha beta";
+    for (int i = 0; i < round % 7; ++i) body += " gamma";
+    REQUIRE((*w)->put_file(f, {DocumentInput{"x", "", body, "text"}}).ok());
+    FileRecord g{"/v/y" + std::to_string(round), "/v", 1, 1, "g", "text"};
+    REQUIRE((*w)->put_file(g, {DocumentInput{"y", "", "alpha", "text"}}).ok());
+    if (round % 50 == 0) REQUIRE((*w)->commit().ok());
+  }
+  REQUIRE((*w)->commit().ok());
+  auto st = (*w)->stats();
+  CHECK(st.documents == 301);
+  CHECK(st.total_length[1] == 2 + 299 % 7 + 300);
+  auto r = IndexReader::open(index);
+  REQUIRE(r.ok());
+  auto scope = (*r)->begin();
+  REQUIRE(scope.ok());
+  auto alpha = (*r)->term(Field::kBody, "alpha");
+  REQUIRE(alpha.ok());
+  CHECK((*alpha)->df == 301);
+  CHECK((*alpha)->cf == 301);
+  auto gamma = (*r)->term(Field::kBody, "gamma");
+  CHECK((*gamma)->df == 1);
+  CHECK((*gamma)->cf == 299 % 7);
+  // Every posting the cursor yields for a live doc is counted exactly once.
+  auto c = (*r)->postings(**alpha);
+  std::uint64_t live = 0;
+  DocId prev = 0;
+  for (; c->valid(); c->next()) {
+    CHECK(c->doc() > prev);
+    prev = c->doc();
+    live += (*r)->live(c->doc());
+  }
+  CHECK(c->status().ok());
+  CHECK(live == 301);
+}
+
+TEST_CASE("bad files are reported and lose nothing already indexed") {
+  TempDir dir;
+  auto tree = dir.path() / "t";
+  write_file(tree / "good.txt", "Good\nthe lighthouse keeper wrote daily");
+  std::string index = dir.str("i.sqlite");
+  index_tree(index, tree.string());
+
+  write_file(tree / "bad-utf8.txt", std::string("Broken\nkelp \xff\xfe harvest \xc3"));
+  write_file(tree / "empty.txt", "");
+  write_file(tree / "binary.dat", std::string("\x00\x01\x02\x03 binary", 11));
+  write_file(tree / "vanish.txt", "Soon gone\nephemeral words");
+  auto w = IndexWriter::open(index, std::nullopt);
+  REQUIRE(w.ok());
+  auto rep = index_paths(**w, {tree.string()}, IndexRunOptions{}, [&](const IndexProgress& p) {
+    if (p.current.find("vanish.txt") != std::string_view::npos) fs::remove(tree / "vanish.txt");
+  });
+  REQUIRE(rep.ok());
+  bool named_binary = false, named_vanish = false, named_utf8 = false;
+  for (auto& p : rep->problems) {
+    named_binary |= p.path.find("binary.dat") != std::string::npos;
+    named_vanish |= p.path.find("vanish.txt") != std::string::npos;
+  }
+  for (auto& p : rep->warnings) named_utf8 |= p.path.find("bad-utf8.txt") != std::string::npos;
+  CHECK(named_binary);
+  CHECK(named_vanish);
+  CHECK(named_utf8);
+  CHECK(rep->failed >= 2);
+  w->reset();
+
+  auto reader = IndexReader::open(index);
+  REQUIRE(reader.ok());
+  CHECK(scores_of(**reader, "lighthouse", {}).count("good.txt") == 1);  // still there
+  CHECK(scores_of(**reader, "harvest", {}).count("bad-utf8.txt") == 1); // repaired and indexed
+  CHECK(scores_of(**reader, "ephemeral", {}).empty());
+}
+
+TEST_CASE("a second writer is refused with a message naming the holder") {
+  TempDir dir;
+  std::string index = dir.str("i.sqlite");
+  auto first = IndexWriter::open(index, IndexSettings{});
+  REQUIRE(first.ok());
+  auto second = IndexWriter::open(index, IndexSettings{});
+  REQUIRE_FALSE(second.ok());
+  CHECK(second.status().code() == Code::kBusy);
+  CHECK(second.status().message().find(std::to_string(::getpid())) != std::string::npos);
+  first.value().reset();
+  CHECK(IndexWriter::open(index, std::nullopt).ok());  // released with the first writer
+}
+
+TEST_CASE("a process killed mid-batch leaves the last committed index intact") {
+  TempDir dir;
+  std::string index = dir.str("i.sqlite");
+  build_index(index, {{"Committed", "safe words in a committed document"}});
+  pid_t child = fork();
+  REQUIRE(child >= 0);
+  if (child == 0) {
+    auto w = IndexWriter::open(index, std::nullopt);
+    if (!w.ok()) _exit(2);
+    for (int i = 0; i < 50; ++i) {
+      FileRecord f{"/v/new" + std::to_string(i), "/v", 1, 1, "h", "text"};
+      if (!(*w)->put_file(f, {DocumentInput{"n", "Uncommitted", "lost words", "text"}}).ok()) _exit(3);
+    }
+    _exit(0);  // no commit, no destructors: as abrupt as a crash
+  }
+  int status = 0;
+  waitpid(child, &status, 0);
+  REQUIRE(WIFEXITED(status));
+  CHECK(WEXITSTATUS(status) == 0);
+  auto reader = IndexReader::open(index);
+  REQUIRE(reader.ok());
+  {
+    auto scope = (*reader)->begin();
+    CHECK((*reader)->stats().documents == 1);
+  }
+  CHECK(scores_of(**reader, "lost", {}).empty());
+  CHECK(scores_of(**reader, "safe", {}).size() == 1);
+  CHECK(IndexWriter::open(index, std::nullopt).ok());  // the dead writer's lock is gone
+}
+
+TEST_CASE("a reader's scope is one snapshot while a writer commits") {
+  TempDir dir;
+  std::string index = dir.str("i.sqlite");
+  build_index(index, {{"One", "first document"}});
+  auto reader = IndexReader::open(index);
+  REQUIRE(reader.ok());
+  {
+    auto scope = (*reader)->begin();
+    REQUIRE(scope.ok());
+    CHECK((*reader)->stats().documents == 1);
+    auto w = IndexWriter::open(index, std::nullopt);
+    REQUIRE(w.ok());
+    REQUIRE((*w)->put_file(FileRecord{"/v/2", "/v", 1, 1, "h", "text"}, {DocumentInput{"2", "Two", "second", "text"}}).ok());
+    REQUIRE((*w)->commit().ok());
+    CHECK((*reader)->stats().documents == 1);
+    auto t = (*reader)->term(Field::kBody, "second");
+    REQUIRE(t.ok());
+    CHECK(!t->has_value());
+  }
+  auto scope = (*reader)->begin();
+  CHECK((*reader)->stats().documents == 2);
+}
+
+TEST_CASE("analyzer settings are fixed at creation") {
+  TempDir dir;
+  std::string index = dir.str("i.sqlite");
+  build_index(index, {{"", "running runners ran"}}, AnalyzerOptions{"none", true});
+  auto w = IndexWriter::open(index, IndexSettings{AnalyzerOptions{"english", true}});
+  REQUIRE_FALSE(w.ok());
+  CHECK(w.status().message().find("none") != std::string::npos);
+  auto r = IndexReader::open(index);
+  REQUIRE(r.ok());
+  CHECK((*r)->settings().analyzer.language == "none");
+  CHECK(scores_of(**r, "running", {}).size() == 1);
+  CHECK(scores_of(**r, "run", {}).empty());  // not stemmed: recorded settings apply to queries
+}
+
+TEST_CASE("decoders reject corrupt blobs with a Corruption status") {
+  codec::Block b{{10, 12, 30}, {1, 4, 2}};
+  std::string data = codec::encode_block(b);
+  codec::Block out;
+  CHECK(codec::decode_block(data, 10, 3, out).ok());
+  CHECK(out.docs == b.docs);
+  CHECK(out.tfs == b.tfs);
+  for (std::size_t cut = 0; cut < data.size(); ++cut)
+    CHECK(codec::decode_block(data.substr(0, cut), 10, 3, out).code() == Code::kCorruption);
+  CHECK(codec::decode_block(data + "x", 10, 3, out).code() == Code::kCorruption);
+  CHECK(codec::decode_block(data, 10, 0, out).code() == Code::kCorruption);
+  CHECK(codec::decode_block(std::string(12, '\xff'), 10, 2, out).code() == Code::kCorruption);
+  std::vector<codec::ForwardList> fwd{{{3, 1}, {9, 2}}, {{4, 7}}};
+  std::string f = codec::encode_forward(fwd);
+  std::vector<codec::ForwardList> back;
+  CHECK(codec::decode_forward(f, back).ok());
+  CHECK(back == fwd);
+  CHECK(codec::decode_forward(f.substr(0, f.size() - 1), back).code() == Code::kCorruption);
+  CHECK(codec::decompress_text("\x07zz").status().code() == Code::kCorruption);
+  std::string big(5000, 'k');
+  auto round = codec::decompress_text(codec::compress_text(big));
+  REQUIRE(round.ok());
+  CHECK(*round == big);
+}
