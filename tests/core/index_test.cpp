@@ -279,6 +279,7 @@ TEST_CASE("analyzer settings are fixed at creation") {
 TEST_CASE("decoders reject corrupt blobs with a Corruption status") {
   codec::Block b{{10, 12, 30}, {1, 4, 2}};
   std::string data = codec::encode_block(b);
+  CHECK(data == std::string("\x02\x12\x01\x04\x02", 5));  // the worked example in docs/index-format.md
   codec::Block out;
   CHECK(codec::decode_block(data, 10, 3, out).ok());
   CHECK(out.docs == b.docs);

@@ -1,0 +1,29 @@
+#!/usr/bin/env bash
+# Installs everything lode needs to build and test on Debian 12 (bookworm),
+# by package name from Debian's archive. Safe to run again.
+set -euo pipefail
+
+packages=(
+  # build
+  build-essential cmake pkg-config
+  # libraries
+  libsqlite3-dev libcpp-httplib-dev nlohmann-json3-dev libstemmer-dev libicu-dev
+  libcli11-dev libzstd-dev libxxhash-dev
+  # tests: doctest, and outside references the tests compare against
+  doctest-dev python3 python3-sklearn python3-scipy snowball-data
+)
+
+sudo=""
+if [ "$(id -u)" -ne 0 ]; then sudo="sudo"; fi
+
+missing=()
+for p in "${packages[@]}"; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+done
+if [ ${#missing[@]} -eq 0 ]; then
+  echo "setup: all ${#packages[@]} Debian packages already installed"
+  exit 0
+fi
+echo "setup: installing ${missing[*]}"
+$sudo apt-get update -qq
+DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "${missing[@]}"
