@@ -34,10 +34,7 @@ struct IndexReader::Impl {
   sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_version;
 
   Status prepare_all() {
-    struct {
-      sql::Stmt* stmt;
-      const char* sql;
-    } all[] = {
+    return db.prepare_all({
         {&q_term, "SELECT term_id, df, cf FROM terms WHERE field = ? AND term = ?"},
         {&q_term_by_id, "SELECT field, term, df, cf FROM terms WHERE term_id = ?"},
         {&q_doc, "SELECT d.external_id, d.title, d.kind, coalesce(f.path, ''), d.len_title, d.len_body, d.live "
@@ -47,13 +44,7 @@ struct IndexReader::Impl {
         {&q_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
         {&q_norms, "SELECT data FROM norms WHERE chunk = ?"},
         {&q_version, "PRAGMA data_version"},
-    };
-    for (auto& [stmt, text] : all) {
-      auto s = db.prepare(text);
-      if (!s) return s.status();
-      *stmt = std::move(s.value());
-    }
-    return Status();
+    });
   }
 
   const std::string& chunk(std::uint32_t c) {
@@ -158,20 +149,13 @@ Result<std::optional<TermInfo>> IndexReader::term(Field field, std::string_view 
 Result<TermInfo> IndexReader::term_by_id(TermId id) {
   auto& q = impl_->q_term_by_id;
   q.bind(1, id);
-  if (!q.step()) {
-    Status s = q.status();
-    q.reset();
-    return s.ok() ? Status::NotFound("term id " + std::to_string(id)) : s;
-  }
+  auto row = sql::one_row(q, "term id " + std::to_string(id));
+  if (!row) return row.status();
   auto f = q.i64(0);
-  if (f < 0 || f >= kFieldCount) {
-    q.reset();
+  if (f < 0 || f >= kFieldCount)
     return Status::Corruption("term " + std::to_string(id) + ": bad field " + std::to_string(f));
-  }
-  TermInfo t{id, static_cast<Field>(f), std::string(q.text(1)), static_cast<std::uint64_t>(q.i64(2)),
-             static_cast<std::uint64_t>(q.i64(3))};
-  q.reset();
-  return t;
+  return TermInfo{id, static_cast<Field>(f), std::string(q.text(1)), static_cast<std::uint64_t>(q.i64(2)),
+                  static_cast<std::uint64_t>(q.i64(3))};
 }
 
 std::unique_ptr<PostingCursor> IndexReader::postings(const TermInfo& term) {
@@ -190,11 +174,8 @@ std::uint32_t IndexReader::length(DocId doc, Field field) {
 Result<DocumentInfo> IndexReader::document(DocId doc) {
   auto& q = impl_->q_doc;
   q.bind(1, std::int64_t{doc});
-  if (!q.step()) {
-    Status s = q.status();
-    q.reset();
-    return s.ok() ? Status::NotFound("document " + std::to_string(doc)) : s;
-  }
+  auto row = sql::one_row(q, "document " + std::to_string(doc));
+  if (!row) return row.status();
   DocumentInfo d;
   d.id = doc;
   d.external_id = std::string(q.text(0));
@@ -203,48 +184,32 @@ Result<DocumentInfo> IndexReader::document(DocId doc) {
   d.path = std::string(q.text(3));
   d.length = {static_cast<std::uint32_t>(q.i64(4)), static_cast<std::uint32_t>(q.i64(5))};
   d.live = q.i64(6) != 0;
-  q.reset();
   return d;
 }
 
 Result<DocId> IndexReader::find_external(std::string_view external_id) {
   auto& q = impl_->q_external;
   q.bind(1, external_id);
-  if (!q.step()) {
-    Status s = q.status();
-    q.reset();
-    return s.ok() ? Status::NotFound("no document with id '" + std::string(external_id) + "'") : s;
-  }
-  auto id = static_cast<DocId>(q.i64(0));
-  q.reset();
-  return id;
+  auto row = sql::one_row(q, "no document with id '" + std::string(external_id) + "'");
+  if (!row) return row.status();
+  return static_cast<DocId>(q.i64(0));
 }
 
 Result<std::string> IndexReader::stored_text(DocId doc, Field field) {
   auto& q = impl_->q_text;
   q.bind(1, std::int64_t{doc});
-  if (!q.step()) {
-    Status s = q.status();
-    q.reset();
-    return s.ok() ? Status::NotFound("no stored text for document " + std::to_string(doc)) : s;
-  }
-  auto text = codec::decompress_text(q.blob(field == Field::kTitle ? 0 : 1));
-  q.reset();
-  return text;
+  auto row = sql::one_row(q, "no stored text for document " + std::to_string(doc));
+  if (!row) return row.status();
+  return codec::decompress_text(q.blob(field == Field::kTitle ? 0 : 1));
 }
 
 Result<std::vector<std::pair<TermId, std::uint32_t>>> IndexReader::forward(DocId doc, Field field) {
   auto& q = impl_->q_fwd;
   q.bind(1, std::int64_t{doc});
-  if (!q.step()) {
-    Status s = q.status();
-    q.reset();
-    return s.ok() ? Status::NotFound("no forward index for document " + std::to_string(doc)) : s;
-  }
+  auto row = sql::one_row(q, "no forward index for document " + std::to_string(doc));
+  if (!row) return row.status();
   std::vector<codec::ForwardList> lists;
-  Status s = codec::decode_forward(q.blob(0), lists);
-  q.reset();
-  if (!s.ok()) return s;
+  LODE_RETURN_IF_ERROR(codec::decode_forward(q.blob(0), lists));
   return std::move(lists[static_cast<std::size_t>(field)]);
 }
 

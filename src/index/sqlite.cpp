@@ -74,6 +74,21 @@ Result<Stmt> Db::prepare(std::string_view sql) {
   return Stmt(db_, s);
 }
 
+Status Db::prepare_all(std::initializer_list<Prepared> all) {
+  for (const Prepared& p : all) {
+    auto s = prepare(p.sql);
+    if (!s) return s.status();
+    *p.stmt = std::move(s.value());
+  }
+  return Status();
+}
+
+Row one_row(Stmt& s, std::string_view missing) {
+  if (s.step()) return Row(s, Status());
+  Status st = s.status();
+  return Row(s, st.ok() ? Status::NotFound(std::string(missing)) : st);
+}
+
 Status Db::error(int rc, std::string_view what) const {
   std::string msg = path_ + ": " + std::string(what) + ": " +
                     (db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc));

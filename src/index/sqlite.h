@@ -5,6 +5,7 @@
 #include <sqlite3.h>
 
 #include <cstdint>
+#include <initializer_list>
 #include <string>
 #include <string_view>
 
@@ -51,6 +52,29 @@ class Stmt {
   Status status_;
 };
 
+// The outcome of a one-row lookup; resets its statement when destroyed so the
+// statement can be bound again. Columns are read from the Stmt meanwhile.
+class Row {
+ public:
+  Row(Stmt& s, Status st) : s_(s), status_(std::move(st)) {}
+  Row(const Row&) = delete;
+  ~Row() { s_.reset(); }
+  explicit operator bool() const { return status_.ok(); }
+  const Status& status() const { return status_; }
+
+ private:
+  Stmt& s_;
+  Status status_;
+};
+
+// Steps `s` once: ok with a row, NotFound(missing) without, else the error.
+Row one_row(Stmt& s, std::string_view missing);
+
+struct Prepared {
+  Stmt* stmt;
+  const char* sql;
+};
+
 class Db {
  public:
   Db() = default;
@@ -71,6 +95,8 @@ class Db {
   static Result<Db> open(const std::string& path, int flags);
   Status exec(const std::string& sql);
   Result<Stmt> prepare(std::string_view sql);
+  // Prepares each statement into its slot; stops at the first error.
+  Status prepare_all(std::initializer_list<Prepared> all);
   sqlite3* raw() const { return db_; }
   const std::string& path() const { return path_; }
   // "<path>: <sqlite message>" as an IOError (or Busy for SQLITE_BUSY).

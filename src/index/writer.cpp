@@ -51,7 +51,7 @@ struct IndexWriter::Impl {
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
   sql::Stmt q_find_term, q_insert_term, q_update_term, q_last_block, q_get_positions;
-  sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms, q_doc_lengths;
+  sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
 
   Status prepare_all();
   Status begin();
@@ -63,10 +63,7 @@ struct IndexWriter::Impl {
 };
 
 Status IndexWriter::Impl::prepare_all() {
-  struct {
-    sql::Stmt* stmt;
-    const char* sql;
-  } all[] = {
+  return db.prepare_all({
       {&q_file, "SELECT file_id, path, root, size, mtime_ns, hash, kind FROM files WHERE path = ?"},
       {&q_insert_file, "INSERT INTO files(path, root, size, mtime_ns, hash, kind) VALUES(?,?,?,?,?,?)"},
       {&q_update_file, "UPDATE files SET root=?, size=?, mtime_ns=?, hash=?, kind=? WHERE file_id=?"},
@@ -88,13 +85,7 @@ Status IndexWriter::Impl::prepare_all() {
       {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
       {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
       {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
-  };
-  for (auto& [stmt, text] : all) {
-    auto s = db.prepare(text);
-    if (!s) return s.status();
-    *stmt = std::move(s.value());
-  }
-  return Status();
+  });
 }
 
 Status IndexWriter::Impl::begin() {

@@ -53,6 +53,7 @@ struct Better {
 }  // namespace
 
 Result<Searcher::Impl::Plan> Searcher::Impl::plan(std::string_view text, const SearchOptions& options) {
+  LODE_RETURN_IF_ERROR(check_options(options));
   Plan p;
   auto q = parse_query(text, *analyzer, options.limits);
   if (!q) return q.status();
@@ -117,7 +118,6 @@ Result<std::unique_ptr<Searcher>> Searcher::create(IndexReader& reader) {
 }
 
 Result<SearchResults> Searcher::search(std::string_view text, const SearchOptions& options) {
-  LODE_RETURN_IF_ERROR(check_options(options));
   auto& reader = impl_->reader;
   auto scope = reader.begin();
   if (!scope) return scope.status();
@@ -197,7 +197,6 @@ Result<SearchResults> Searcher::search(std::string_view text, const SearchOption
 }
 
 Result<Hit> Searcher::explain(std::string_view text, DocId doc, const SearchOptions& options) {
-  LODE_RETURN_IF_ERROR(check_options(options));
   auto& reader = impl_->reader;
   auto scope = reader.begin();
   if (!scope) return scope.status();
