@@ -1,0 +1,152 @@
+// lode/ingest.h — finding files and reading them into documents.
+//
+// Two steps, both free of any index knowledge:
+//   crawl():     walk folders, apply include/exclude globs, stat each file.
+//   read_file(): read one file into one or more Documents (a JSON Lines file
+//                gives one per record), with the problems met along the way.
+// Formats for now: plain text, Markdown, JSON Lines. Binary files are refused
+// with a message, never indexed.
+//
+// Thread safety: free functions with no shared state; safe from any thread.
+#pragma once
+
+#include <cstdint>
+#include <functional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "lode/status.h"
+
+namespace lode {
+
+// One searchable unit. Field text is valid UTF-8 (from read_file, text and
+// Markdown bodies end lines with '\n'; JSON Lines fields are as the record has them).
+struct Document {
+  std::string external_id;  // JSON Lines: the record's id field; else the file path
+  std::string title;        // may be empty; text and Markdown: at most 200 bytes
+  std::string body;
+  std::string kind;         // "text", "markdown", "jsonl"
+};
+
+struct FileInfo {
+  std::string path;     // absolute, lexically normal path (links not resolved)
+  std::int64_t size = 0;
+  std::int64_t mtime_ns = 0;  // modification time, nanoseconds since the epoch
+};
+
+struct CrawlOptions {
+  // Glob patterns (fnmatch with FNM_PATHNAME semantics, plus "**" for any
+  // number of folders), matched against the path relative to the crawl root
+  // ("notes/2024/a.md"); for a root that is a single file, against its name.
+  //   "*" and "?" never match '/', so "*.md" matches top-level files only and
+  //   "**/*.md" matches at any depth; "**" must be a whole path segment
+  //   ("a/**/b" matches "a/b" and "a/x/y/b"). "?" is one UTF-8 character.
+  //   Classes: [abc], [a-z], [!abc] or [^abc]; '\' escapes the next character.
+  //   Not supported: [[:alpha:]]-style classes, [.x.] and [=x=].
+  // Empty include list = every file. Exclude wins over include, and an exclude
+  // pattern that matches a folder skips the whole folder ("build", "**/.git").
+  std::vector<std::string> include;
+  std::vector<std::string> exclude;
+  // Hidden files and folders (name starts with '.') are skipped unless true.
+  // A root named explicitly is taken even when hidden.
+  bool hidden = false;
+  // Follow symbolic links below the roots, to files and to folders. When
+  // false, links are skipped silently. A root that is a link is always
+  // followed (the caller named it). When following: files are listed under
+  // the link's path; a link back to a folder on the current path is reported
+  // as "symlink loop ..." and not entered; a folder reached a second time
+  // through another link is walked once and the second path reported; a
+  // dangling link is reported as "broken symbolic link".
+  bool follow_symlinks = false;
+};
+
+struct CrawlProblem {
+  std::string path;
+  // "permission denied", "vanished" (listed, then gone before it could be
+  // examined), "symlink loop (back to <folder>)", "broken symbolic link",
+  // "folder already crawled through another path", "not a regular file or
+  // folder" (a root that is a pipe or device), or the system's error text.
+  std::string reason;
+};
+
+struct CrawlResult {
+  std::vector<FileInfo> files;  // regular files only, sorted by path (bytewise), no duplicates
+  std::vector<CrawlProblem> problems;  // in walk order
+};
+
+// Walks each root (a folder or a single file), in order. A root that does not
+// exist is an error (NotFound naming it); an empty root string is
+// InvalidArgument; a root that cannot be examined is IOError. Problems below a
+// root are collected, not fatal. A file reached from several roots (say "docs"
+// and "docs/a.md") is listed once; the globs then decide per root, relative
+// to that root.
+Result<CrawlResult> crawl(const std::vector<std::string>& roots, const CrawlOptions& options);
+
+// True when `relative_path` matches the glob (see CrawlOptions for the syntax).
+// A malformed pattern (ending in a lone '\') matches nothing.
+bool glob_match(std::string_view pattern, std::string_view relative_path);
+
+struct ReadOptions {
+  // JSON Lines field names.
+  std::string id_field = "id";
+  std::string title_field = "title";
+  std::string text_field = "text";
+  // Files larger than this are refused (Limit error naming the file, its size
+  // and the limit). 0 = no limit. Default 1 GiB: the whole file is held in memory.
+  std::int64_t max_file_bytes = std::int64_t{1} << 30;
+};
+
+struct ReadResult {
+  std::vector<Document> documents;    // may be empty (see read_file)
+  std::string content_hash;           // XXH3-128 of the raw file bytes (BOM and CRs
+                                      // included), 32 lowercase hex digits in the
+                                      // canonical big-endian order xxhsum prints
+  std::vector<std::string> warnings;  // e.g. "invalid UTF-8 at byte 17 (3 sequences replaced)"
+                                      // at most one per kind of problem per file,
+                                      // except bad JSON Lines lines: the first 10
+                                      // one by one ("line N: <reason>"), then a count
+};
+
+// Reads one file. The format follows the extension, case-insensitively:
+// .jsonl/.ndjson are JSON Lines, .md/.markdown Markdown, anything else
+// (.txt, .text, no extension, .log, ...) plain text.
+//
+// Every format: a file with a NUL byte in its first 8 KiB, or with more than
+// 30% of its characters not valid UTF-8, is refused as binary (Unsupported,
+// "<path>: binary file (...)"). Otherwise invalid UTF-8 is replaced by U+FFFD
+// with one warning giving the first bad byte's offset in the file and the
+// count. A UTF-8 byte order mark is dropped; CRLF and lone CR become '\n'.
+// An empty or whitespace-only file gives no document and the warning
+// "empty file".
+//
+// Plain text: one document; title = first non-blank line, trimmed, cut to at
+// most 200 bytes at a character boundary; body = the whole text; id = path.
+// Markdown: one document from markdown_to_document(), id = path; a file with
+// no text once markup is removed gives no document and a warning.
+// JSON Lines: one document per valid non-blank line. The text field must be a
+// string or an array of strings (joined with '\n'); id may be a string or a
+// number (kept as its decimal text: 42, -7, 1.5); a missing, null or empty id
+// becomes "<path>#<line number>" (1-based, blank lines counted); title is
+// optional and must be a string. A line that does not parse, is not an object
+// or breaks these rules is skipped with a warning naming its line number.
+// Repeated ids within the file are all kept, with one warning naming the first
+// repeat.
+//
+// Errors name the file: NotFound (missing or vanished), IOError (unreadable or
+// a folder; with the system's error text), Limit (too large), Unsupported
+// (binary, or not a regular file such as a pipe).
+Result<ReadResult> read_file(const std::string& path, const ReadOptions& options);
+
+// Markdown to plain text: markup stripped (emphasis, links keep their text,
+// images their alt text, code fences keep their content, HTML tags and
+// comments removed, common entities decoded, list/quote markers and table
+// pipes gone, reference definitions and YAML front matter dropped). Title: the
+// front matter's "title:" if any, else the first heading (ATX "#" or setext
+// underlined), at most 200 bytes; empty if there is none. The body keeps the
+// heading text. kind = "markdown", external_id empty. Never fails; time linear
+// in the input, any nesting depth. Not a full CommonMark parser.
+// REQUIRES: valid UTF-8.
+Document markdown_to_document(std::string_view markdown_utf8);
+
+}  // namespace lode

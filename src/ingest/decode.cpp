@@ -1,0 +1,69 @@
+#include "ingest/decode.h"
+
+#include <algorithm>
+#include <cstring>
+#include <utility>
+
+#include "lode/analysis.h"
+
+namespace lode::ingest {
+namespace {
+
+// Characters of valid UTF-8 text: every byte that is not a continuation byte.
+std::size_t count_chars(std::string_view s) {
+  std::size_t n = 0;
+  for (const char c : s) n += (static_cast<unsigned char>(c) & 0xC0) != 0x80;
+  return n;
+}
+
+// CRLF and lone CR become LF, so every reader sees one line ending.
+std::string normalise_newlines(std::string text) {
+  if (text.find('\r') == std::string::npos) return text;
+  std::string out;
+  out.reserve(text.size());
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    if (text[i] != '\r') {
+      out += text[i];
+    } else {
+      out += '\n';
+      if (i + 1 < text.size() && text[i + 1] == '\n') ++i;
+    }
+  }
+  return out;
+}
+
+}  // namespace
+
+Result<DecodedText> decode_text(std::string_view bytes, const std::string& path) {
+  const std::size_t sniff = std::min(bytes.size(), kBinarySniffBytes);
+  if (const void* nul = std::memchr(bytes.data(), '\0', sniff); nul != nullptr) {
+    const auto at = static_cast<const char*>(nul) - bytes.data();
+    return Status::Unsupported(path + ": binary file (NUL byte at offset " + std::to_string(at) + ")");
+  }
+  std::size_t bom = 0;
+  if (bytes.size() >= 3 && bytes.substr(0, 3) == "\xEF\xBB\xBF") bom = 3;
+  const std::string_view body = bytes.substr(bom);
+
+  DecodedText out;
+  if (is_valid_utf8(body)) {
+    out.text.assign(body);
+  } else {
+    Utf8Repair fixed = repair_utf8(body);
+    // Rule of thumb (common practice): text in a legacy 8-bit encoding has a
+    // minority of non-ASCII characters; binary data has a large share of bytes
+    // that are not UTF-8. 30% separates the two comfortably.
+    const std::size_t chars = count_chars(fixed.text);
+    if (fixed.replaced * 10 > chars * 3) {
+      return Status::Unsupported(path + ": binary file (" + std::to_string(fixed.replaced) + " of " +
+                                 std::to_string(chars) + " characters are not valid UTF-8)");
+    }
+    out.warning = "invalid UTF-8 at byte " + std::to_string(fixed.first_bad_offset + bom) + " (" +
+                  std::to_string(fixed.replaced) +
+                  (fixed.replaced == 1 ? " sequence replaced)" : " sequences replaced)");
+    out.text = std::move(fixed.text);
+  }
+  out.text = normalise_newlines(std::move(out.text));
+  return out;
+}
+
+}  // namespace lode::ingest

@@ -1,0 +1,26 @@
+// Bytes to text for the readers (private to src/ingest/): binary refusal,
+// BOM removal, UTF-8 repair and line-ending normalisation.
+#pragma once
+
+#include <string>
+#include <string_view>
+
+#include "lode/status.h"
+
+namespace lode::ingest {
+
+// Only this many leading bytes are searched for a NUL byte.
+inline constexpr std::size_t kBinarySniffBytes = 8192;
+
+struct DecodedText {
+  std::string text;     // valid UTF-8, no BOM, lines end in '\n' only
+  std::string warning;  // empty, or the one invalid-UTF-8 warning for the file
+};
+
+// Unsupported ("<path>: binary file ...") when the bytes hold a NUL within the
+// first kBinarySniffBytes, or when more than 30% of the characters would be
+// replacement characters; otherwise the decoded text. `path` only names the
+// file in messages.
+Result<DecodedText> decode_text(std::string_view bytes, const std::string& path);
+
+}  // namespace lode::ingest
