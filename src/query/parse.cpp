@@ -64,6 +64,7 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
   if (!is_valid_utf8(text)) return Status::InvalidArgument("query is not valid UTF-8");
   Query query;
   std::size_t total_words = 0;
+  std::string left_out;  // items without searchable words, reported in one note
   for (const RawItem& item : split_items(text)) {
     auto analyzed = analyzer.analyze(item.text);
     total_words += analyzed.tokens.size();
@@ -71,8 +72,7 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
       return Status::Limit("query has more than " + std::to_string(limits.max_terms) +
                            " words; the limit is " + std::to_string(limits.max_terms));
     if (analyzed.tokens.empty()) {
-      if (!item.text.empty())
-        query.warnings.push_back("'" + std::string(item.typed) + "' has no searchable words (stopwords or punctuation) and was left out");
+      if (!item.text.empty()) left_out += (left_out.empty() ? "" : ", ") + std::string(item.typed);
       continue;
     }
     bool as_phrase = item.quoted || (item.occur != Occur::kShould && analyzed.tokens.size() > 1);
@@ -86,6 +86,8 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
         query.clauses.push_back(Clause{item.occur, false, item.field, {{t.term, 0}}, std::string(item.typed)});
     }
   }
+  if (!left_out.empty())
+    query.warnings.push_back("left out (stopwords or punctuation only): " + left_out);
   return query;
 }
 
