@@ -178,7 +178,16 @@ NormEntry get_norm(std::string_view chunk, std::uint32_t slot) {
   return e;
 }
 
-std::string compress_text(std::string_view text) {
+TextCompressor::TextCompressor() : cctx_(ZSTD_createCCtx()) {}
+TextCompressor::~TextCompressor() { ZSTD_freeCCtx(cctx_); }
+
+std::string compress_text(std::string_view text) { return TextCompressor().compress(text); }
+
+// Level 1: about twice as fast as the default 3 for a few percent more bytes;
+// stored text is read only for snippets, so indexing speed matters more.
+constexpr int kLevel = 1;
+
+std::string TextCompressor::compress(std::string_view text) {
   std::string out;
   if (text.size() < 128) {  // not worth a zstd frame header
     out.push_back('\0');
@@ -187,7 +196,8 @@ std::string compress_text(std::string_view text) {
   }
   out.resize(1 + ZSTD_compressBound(text.size()));
   out[0] = '\1';
-  std::size_t n = ZSTD_compress(out.data() + 1, out.size() - 1, text.data(), text.size(), 3);
+  std::size_t n = cctx_ ? ZSTD_compressCCtx(cctx_, out.data() + 1, out.size() - 1, text.data(), text.size(), kLevel)
+                        : ZSTD_compress(out.data() + 1, out.size() - 1, text.data(), text.size(), kLevel);
   if (ZSTD_isError(n)) {
     out.assign(1, '\0');
     out.append(text);

@@ -12,6 +12,8 @@
 #include "lode/index.h"
 #include "lode/status.h"
 
+struct ZSTD_CCtx_s;  // zstd.h stays out of this header
+
 namespace lode::codec {
 
 // LEB128 unsigned varint, at most 10 bytes for 64 bits.
@@ -72,7 +74,20 @@ void put_norm(std::string& chunk, std::uint32_t slot, const NormEntry& e);
 NormEntry get_norm(std::string_view chunk, std::uint32_t slot);  // REQUIRES: chunk sized
 
 // Stored text: 1 byte method (0 raw, 1 zstd) then the bytes.
-std::string compress_text(std::string_view text);
+// A TextCompressor keeps one zstd context for many texts (creating a context
+// per text costs more than compressing a short one). Not thread-safe.
+class TextCompressor {
+ public:
+  TextCompressor();
+  ~TextCompressor();
+  TextCompressor(const TextCompressor&) = delete;
+  TextCompressor& operator=(const TextCompressor&) = delete;
+  std::string compress(std::string_view text);
+
+ private:
+  ::ZSTD_CCtx_s* cctx_;
+};
+std::string compress_text(std::string_view text);  // one-off, for tests and tools
 Result<std::string> decompress_text(std::string_view blob);
 
 }  // namespace lode::codec

@@ -42,6 +42,11 @@ struct IndexWriter::Impl {
   bool in_txn = false;
 
   std::unordered_map<std::string, std::uint32_t> slot_of;  // field byte + term -> slot
+  codec::TextCompressor compressor;
+  // Scratch reused for every document (no allocation per document).
+  std::vector<std::pair<std::string_view, std::uint32_t>> by_term;  // (term, position)
+  std::string key;
+  std::vector<std::uint32_t> doc_positions;
   std::vector<TermBuf> terms;
   std::vector<PendingDoc> pending;
   std::map<std::uint32_t, std::string> dirty_norms;  // chunk -> bytes
@@ -50,7 +55,7 @@ struct IndexWriter::Impl {
 
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
-  sql::Stmt q_find_term, q_insert_term, q_update_term, q_last_block, q_get_positions;
+  sql::Stmt q_upsert_term, q_max_term, q_update_term, q_last_block, q_get_positions;
   sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
 
   Status prepare_all();
@@ -58,7 +63,7 @@ struct IndexWriter::Impl {
   Status remove_docs_of(std::int64_t file_id);
   Status add_document(std::int64_t file_id, const DocumentInput& d);
   Status flush();
-  Status write_term(TermBuf& t, TermId id);
+  Status write_term(TermBuf& t, TermId id, bool had_blocks);
   Result<std::string*> norms_chunk(std::uint32_t chunk);
 };
 
@@ -75,8 +80,9 @@ Status IndexWriter::Impl::prepare_all() {
       {&q_delete_text, "DELETE FROM doc_text WHERE doc_id = ?"},
       {&q_delete_fwd, "DELETE FROM doc_terms WHERE doc_id = ?"},
       {&q_get_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
-      {&q_find_term, "SELECT term_id, df FROM terms WHERE field = ? AND term = ?"},
-      {&q_insert_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, 0, 0)"},
+      {&q_upsert_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, ?, ?) ON CONFLICT(field, term) "
+                       "DO UPDATE SET df = df + excluded.df, cf = cf + excluded.cf RETURNING term_id, df"},
+      {&q_max_term, "SELECT coalesce(max(term_id), 0) FROM terms"},
       {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ? RETURNING df - ?, df"},
       {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
       {&q_get_positions, "SELECT data FROM positions WHERE term_id = ? AND first_doc = ?"},
@@ -174,27 +180,35 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
     auto fi = static_cast<std::size_t>(f);
     auto analyzed = analyzer->analyze(*text[fi]);
     len[fi] = static_cast<std::uint32_t>(analyzed.tokens.size());
-    // Group this field's tokens by term, keeping positions in order.
-    std::unordered_map<std::string_view, std::vector<std::uint32_t>> by_term;
-    for (auto& t : analyzed.tokens) by_term[t.term].push_back(t.position);
-    for (auto& [term, positions] : by_term) {
-      std::string key(1, static_cast<char>(f));
+    // Group this field's tokens by term: a stable sort keeps positions ascending.
+    by_term.clear();
+    for (auto& t : analyzed.tokens) by_term.emplace_back(t.term, t.position);
+    std::stable_sort(by_term.begin(), by_term.end(),
+                     [](const auto& a, const auto& b) { return a.first < b.first; });
+    doc_positions.clear();
+    for (std::size_t i = 0; i < by_term.size(); ++i) {
+      doc_positions.push_back(by_term[i].second);
+      if (i + 1 < by_term.size() && by_term[i + 1].first == by_term[i].first) continue;
+      std::string_view term = by_term[i].first;
+      key.assign(1, static_cast<char>(f));
       key.append(term);
-      auto [it, fresh] = slot_of.try_emplace(std::move(key), static_cast<std::uint32_t>(terms.size()));
-      if (fresh) {
+      auto it = slot_of.find(key);
+      if (it == slot_of.end()) {
+        it = slot_of.emplace(key, static_cast<std::uint32_t>(terms.size())).first;
         terms.push_back(TermBuf{f, std::string(term), {}, {}, {}, {}, {}});
         batch_estimate += 2 * term.size() + 160;
       }
       TermBuf& tb = terms[it->second];
-      auto tf = static_cast<std::uint32_t>(positions.size());
+      auto tf = static_cast<std::uint32_t>(doc_positions.size());
       tb.docs.push_back(id);
       tb.tfs.push_back(tf);
       tb.lengths.push_back(len[fi]);
       std::size_t before = tb.positions.size();
-      codec::encode_positions(tb.positions, positions);
+      codec::encode_positions(tb.positions, doc_positions);
       tb.pos_end.push_back(static_cast<std::uint32_t>(tb.positions.size()));
       batch_estimate += 24 + (tb.positions.size() - before);
       pd.slots.emplace_back(it->second, tf);
+      doc_positions.clear();
     }
   }
   batch_estimate += 8 * pd.slots.size() + 64;
@@ -203,8 +217,8 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
   LODE_RETURN_IF_ERROR(q_insert_doc.bind(1, std::int64_t{id}).bind(2, file_id).bind(3, d.external_id)
                            .bind(4, d.title).bind(5, d.kind).bind(6, std::int64_t{len[0]})
                            .bind(7, std::int64_t{len[1]}).run());
-  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, codec::compress_text(d.title))
-                           .bind_blob(3, codec::compress_text(d.body)).run());
+  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, compressor.compress(d.title))
+                           .bind_blob(3, compressor.compress(d.body)).run());
   auto chunk = norms_chunk(id / codec::kNormsPerChunk);
   if (!chunk) return chunk.status();
   codec::put_norm(**chunk, id % codec::kNormsPerChunk, codec::NormEntry{true, len});
@@ -215,13 +229,13 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
 
 // Appends a term's batch postings after its existing last block, refilling
 // that block if it is not full, so blocks stay dense across batches.
-Status IndexWriter::Impl::write_term(TermBuf& t, TermId id) {
+Status IndexWriter::Impl::write_term(TermBuf& t, TermId id, bool had_blocks) {
   codec::Block block;
   std::string positions;
   std::vector<std::uint32_t> old_pos_end;
   std::uint32_t old_min_len = UINT32_MAX;
-  q_last_block.bind(1, id);
-  if (q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
+  if (had_blocks) q_last_block.bind(1, id);
+  if (had_blocks && q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
     auto first = static_cast<DocId>(q_last_block.i64(0));
     auto n = static_cast<std::uint32_t>(q_last_block.i64(1));
     old_min_len = static_cast<std::uint32_t>(q_last_block.i64(3));
@@ -274,45 +288,35 @@ Status IndexWriter::Impl::write_term(TermBuf& t, TermId id) {
                              .bind_blob(7, codec::encode_block(out)).run());
     LODE_RETURN_IF_ERROR(q_put_positions.bind(1, id).bind(2, std::int64_t{out.docs.front()}).bind_blob(3, pos_blob).run());
   }
-  std::int64_t cf = 0;
-  for (auto tf : t.tfs) cf += tf;
-  auto df = static_cast<std::int64_t>(t.docs.size());
-  q_update_term.bind(1, df).bind(2, cf).bind(3, id).bind(4, df);
-  if (!q_update_term.step()) {
-    Status s = q_update_term.status();
-    q_update_term.reset();
-    return s.ok() ? Status::Corruption("term " + std::to_string(id) + " vanished") : s;
-  }
-  if (q_update_term.i64(0) == 0) ++counters.terms;  // df before this batch
-  q_update_term.reset();
   counters.postings += t.docs.size();
   return Status();
 }
 
 Status IndexWriter::Impl::flush() {
   if (!in_txn) return Status();
-  // 1. Term ids for every term of the batch.
+  // 1. Term ids for every term of the batch, adding its df and cf in the
+  // same statement. Ids above the old maximum are new: they have no blocks.
+  TermId max_before = 0;
+  if (q_max_term.step()) max_before = q_max_term.i64(0);
+  q_max_term.reset();
   std::vector<std::pair<TermId, std::uint32_t>> order;  // (term id, slot)
   order.reserve(terms.size());
   for (std::uint32_t slot = 0; slot < terms.size(); ++slot) {
     auto& t = terms[slot];
-    q_find_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term);
-    TermId id = 0;
-    if (q_find_term.step()) id = q_find_term.i64(0);
-    Status s = q_find_term.status();
-    q_find_term.reset();
-    LODE_RETURN_IF_ERROR(s);
-    if (id == 0) {
-      LODE_RETURN_IF_ERROR(q_insert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).run());
-      id = db.last_insert_rowid();
-    }
-    order.emplace_back(id, slot);
+    std::int64_t cf = 0;
+    for (auto tf : t.tfs) cf += tf;
+    auto df = static_cast<std::int64_t>(t.docs.size());
+    q_upsert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).bind(3, df).bind(4, cf);
+    auto row = sql::one_row(q_upsert_term, "term upsert returned no row");
+    if (!row) return row.status();
+    if (q_upsert_term.i64(1) == df) ++counters.terms;  // df was 0 before this batch
+    order.emplace_back(q_upsert_term.i64(0), slot);
   }
   std::vector<TermId> id_of(terms.size());
   for (auto& [id, slot] : order) id_of[slot] = id;
   // 2. Postings, in term id order for B-tree locality.
   std::sort(order.begin(), order.end());
-  for (auto& [id, slot] : order) LODE_RETURN_IF_ERROR(write_term(terms[slot], id));
+  for (auto& [id, slot] : order) LODE_RETURN_IF_ERROR(write_term(terms[slot], id, id <= max_before));
   // 3. Forward index of the batch's documents.
   for (auto& pd : pending) {
     std::vector<codec::ForwardList> per_field(kFieldCount);
