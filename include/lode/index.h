@@ -1,6 +1,6 @@
 // lode/index.h — the inverted index in one SQLite file.
 //
-// Layout (documented byte by byte in docs/index-format.md, format version 1):
+// Layout (documented byte by byte in docs/index-format.md, format version 2):
 // documents with per-field lengths and a live flag, a term dictionary with
 // exact df/cf per (field, term), postings in blocks of up to 128 documents with
 // per-block max tf and min field length, positions per block, a forward index
@@ -45,7 +45,7 @@ inline constexpr std::array<Field, kFieldCount> kAllFields = {Field::kTitle, Fie
 std::string_view field_name(Field f);                        // "title", "body"
 std::optional<Field> parse_field(std::string_view name);     // nullopt if unknown
 
-inline constexpr int kIndexFormatVersion = 1;
+inline constexpr int kIndexFormatVersion = 2;  // 2: doc_meta, problems
 inline constexpr std::uint32_t kBlockSize = 128;  // documents per postings block
 
 // Settings fixed when an index is created and recorded in it.
@@ -78,6 +78,40 @@ struct DocumentInput {
   std::string title;
   std::string body;
   std::string kind;
+  // (Initialisers given so that {id, title, body, kind} stays warning-free.)
+  std::string author{};        // "" when unknown
+  std::int64_t date = 0;       // seconds since the epoch; 0: the file's mtime is used
+  std::uint32_t pages = 0;     // 0: not a paged format
+  std::vector<std::uint32_t> page_offsets{};  // byte offset in body where each page starts
+};
+
+// A problem met reading one file, kept in the index until the file reads
+// cleanly (or leaves the index).
+struct RecordedProblem {
+  std::string path;
+  bool error = true;          // true: the file could not be read; false: a warning
+  std::string message;
+  std::int64_t time_ns = 0;   // when it was recorded, ns since the epoch
+};
+
+// Where a page of a paged document starts.
+struct PageStart {
+  std::uint32_t position = 0;  // first body word position on the page
+  std::uint32_t offset = 0;    // byte offset of the page in the stored body
+};
+
+// Metadata constraints on documents (all given ones must hold; empty = any).
+struct DocFilter {
+  std::vector<std::string> kinds;     // docs.kind is one of these
+  std::vector<std::string> prefixes;  // id or absolute path starts with one of these
+  std::optional<std::int64_t> date_from, date_to;  // inclusive, seconds since the epoch
+  std::string author;                 // case-insensitive (ASCII) substring of the author
+  std::optional<std::uint32_t> pages_min, pages_max;
+  std::optional<std::int64_t> size_min, size_max;  // file size in bytes
+  bool empty() const {
+    return kinds.empty() && prefixes.empty() && !date_from && !date_to && author.empty() && !pages_min &&
+           !pages_max && !size_min && !size_max;
+  }
 };
 
 struct CollectionStats {
@@ -121,6 +155,18 @@ class IndexWriter {
   Status touch_file(const FileRecord& file);
   // Removes a file and its documents. NotFound if the index does not hold it.
   Status remove_file(const std::string& path);
+  // Moves a file whose content is unchanged to a new path (a rename): its
+  // documents keep their ids and postings; their external ids equal to
+  // `old_id`, or starting with `old_id` + "#", get `new_id` in its place.
+  // NotFound if `old_path` is not held; InvalidArgument if `file.path` is.
+  Status rename_file(const std::string& old_path, const FileRecord& file, const std::string& old_id,
+                     const std::string& new_id);
+
+  // Replaces the problems recorded for `path` with `problems` (empty: the
+  // file read cleanly). Committed with the next commit().
+  Status record_problems(const std::string& path, const std::vector<RecordedProblem>& problems);
+  // Every recorded problem, by path, including uncommitted ones.
+  Result<std::vector<RecordedProblem>> problems();
 
   // Flushes the batch and commits. Readers see everything up to here.
   Status commit();
@@ -142,6 +188,10 @@ struct DocumentInfo {
   std::string path;  // file it came from
   std::array<std::uint32_t, kFieldCount> length{};  // field lengths in terms
   bool live = false;
+  std::string author;         // "" when unknown
+  std::int64_t date = 0;      // document date, else file mtime (seconds since the epoch)
+  std::uint32_t pages = 0;    // 0: not paged
+  std::int64_t size = 0;      // size of the file it came from, bytes
 };
 
 struct TermInfo {
@@ -218,6 +268,14 @@ class IndexReader {
   Result<std::vector<std::pair<TermId, std::uint32_t>>> forward(DocId doc, Field field);
   // Highest document id ever assigned + 1.
   DocId doc_id_limit() const;
+
+  // Page starts of a paged document (PDF), in page order; empty otherwise.
+  // Corruption when the stored map is damaged.
+  Result<std::vector<PageStart>> pages(DocId doc);
+  // Live documents meeting every constraint of `filter`, ascending.
+  Result<std::vector<DocId>> filter(const DocFilter& filter);
+  // Every recorded problem, by path (see IndexWriter::record_problems).
+  Result<std::vector<RecordedProblem>> problems();
 
  private:
   struct Impl;

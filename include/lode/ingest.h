@@ -4,8 +4,10 @@
 //   crawl():     walk folders, apply include/exclude globs, stat each file.
 //   read_file(): read one file into one or more Documents (a JSON Lines file
 //                gives one per record), with the problems met along the way.
-// Formats for now: plain text, Markdown, JSON Lines. Binary files are refused
-// with a message, never indexed.
+// Formats: plain text (UTF-8 or a legacy encoding found by ICU charset
+// detection), Markdown, JSON Lines, HTML, PDF, DOCX, ODT, EPUB, e-mail (.eml
+// and mbox), and gzip-compressed files of any of these (docs/formats.md).
+// Other binary files are refused with a message, never indexed.
 //
 // Thread safety: free functions with no shared state; safe from any thread.
 #pragma once
@@ -26,7 +28,16 @@ struct Document {
   std::string external_id;  // JSON Lines: the record's id field; else the file path
   std::string title;        // may be empty; text and Markdown: at most 200 bytes
   std::string body;
-  std::string kind;         // "text", "markdown", "jsonl"
+  std::string kind;         // "text", "markdown", "jsonl", "html", "pdf", "docx",
+                            // "odt", "epub", "email"
+  std::string author{};     // from the format's metadata (PDF info, docx core.xml,
+                            // mail From:); empty when unknown
+  std::int64_t date = 0;    // the document's own date (PDF creation, mail Date:),
+                            // seconds since the epoch; 0 when unknown
+  std::uint32_t pages = 0;  // PDF: page count; 0 for formats without pages
+  // PDF: byte offset in `body` where each page starts (page_starts[0] == 0,
+  // ascending, one per page); empty for formats without pages.
+  std::vector<std::uint32_t> page_starts{};
 };
 
 struct FileInfo {
@@ -95,6 +106,21 @@ struct ReadOptions {
   // Files larger than this are refused (Limit error naming the file, its size
   // and the limit). 0 = no limit. Default 1 GiB: the whole file is held in memory.
   std::int64_t max_file_bytes = std::int64_t{1} << 30;
+  // Extracted text kept per file (all documents together); the rest is cut
+  // with a warning. 0 = no limit. Default 64 MiB: far above any real book,
+  // small enough that one odd file cannot dominate a batch.
+  std::int64_t max_text_bytes = std::int64_t{64} << 20;
+  // Bytes a compressed file or container (gzip, DOCX/ODT/EPUB entries) may
+  // expand to; above it the file is refused (Limit, "... expands past ...").
+  // 0 = no limit. Default 512 MiB: stops zip bombs, passes real documents.
+  std::int64_t max_unpacked_bytes = std::int64_t{512} << 20;
+  // HTML nested deeper than this many elements is refused (Limit). The HTML5
+  // tree builder's time grows with depth squared, so a hostile page must be
+  // stopped before it is parsed. Default 512: real pages stay under ~60.
+  std::uint32_t max_html_depth = 512;
+  // Messages read from one mbox file; the rest are dropped with a warning.
+  // 0 = no limit. Default 1,000,000.
+  std::uint32_t max_mbox_messages = 1000000;
 };
 
 struct ReadResult {
@@ -102,6 +128,8 @@ struct ReadResult {
   std::string content_hash;           // XXH3-128 of the raw file bytes (BOM and CRs
                                       // included), 32 lowercase hex digits in the
                                       // canonical big-endian order xxhsum prints
+  std::int64_t size = 0;              // bytes read
+  std::int64_t mtime_ns = 0;          // modification time when read (ns since the epoch)
   std::vector<std::string> warnings;  // e.g. "invalid UTF-8 at byte 17 (3 sequences replaced)"
                                       // at most one per kind of problem per file,
                                       // except bad JSON Lines lines: the first 10
@@ -137,6 +165,36 @@ struct ReadResult {
 // a folder; with the system's error text), Limit (too large), Unsupported
 // (binary, or not a regular file such as a pipe).
 Result<ReadResult> read_file(const std::string& path, const ReadOptions& options);
+//
+// Formats beyond text (see docs/formats.md for each one's fields):
+// by extension, case-insensitively, and by content for PDF ("%PDF-"), zip
+// containers (DOCX/ODT/EPUB by their manifest) and gzip (1f 8b):
+//   .pdf          PDF: one document; body = the text of each page in order,
+//                 pages separated by '\f'; title/author/date from the document
+//                 info, else title = first line; pages and page_starts set.
+//   .html .htm .xhtml  HTML: <title> (else the first heading), visible text
+//                 with headings and paragraphs on their own lines; script,
+//                 style, nav, header, footer, aside, template, noscript skipped;
+//                 the declared charset (BOM, <meta charset>, http-equiv) honoured.
+//   .docx .odt .epub   office / e-book: body text; title and author from
+//                 docProps/core.xml, meta.xml, or the OPF package metadata.
+//   .eml          one message; .mbox / .mbx: one document per message.
+//                 Subject = title; body starts with From:/To:/Date: lines, then
+//                 the text parts (HTML parts as text), then "Attachments: ...".
+//   .gz           decompressed (within max_unpacked_bytes), then read by the
+//                 inner name ("notes.html.gz" is HTML).
+// Plain text that is not UTF-8 and holds no valid multi-byte UTF-8 sequence
+// is decoded from the charset ICU detects, with the warning
+// "not UTF-8: decoded as <charset> (ICU detection, confidence <n>%)".
+// Errors beyond those above: Corruption (damaged PDF, zip or mail, naming
+// what failed), Unsupported ("encrypted PDF", "password-protected"),
+// Limit (expands past max_unpacked_bytes; HTML deeper than max_html_depth),
+// IOError "changed while being read" (size or mtime moved during the read).
+
+// Reads a file's bytes only and returns their content hash (as in
+// ReadResult::content_hash), for rename detection without extraction.
+// Errors as read_file's file access errors.
+Result<std::string> hash_file(const std::string& path, const ReadOptions& options);
 
 // Markdown to plain text: markup stripped (emphasis, links keep their text,
 // images their alt text, code fences keep their content, HTML tags and

@@ -8,6 +8,16 @@
 //   -draft              excluded: no match contains it (also -"a phrase")
 //   title:lamp          restricts a word or phrase to one field (title, body);
 //                       combines with + and -: +title:"fog horn"
+// Filters on document metadata (all must hold; not ranked, never analyzed):
+//   @kind:pdf           kind is one of a comma list: @kind:pdf,html,email
+//   @in:papers/2021     id (path relative to its root) or absolute path starts
+//                       with the text; repeat for any of several folders
+//   @since:2021-03      document date (or file mtime) on or after the start of
+//   @until:2021         that day / month / year (UTC); @until includes the
+//                       whole day, month or year given
+//   @by:brennan         author contains the text (ASCII case-insensitive)
+//   @pages:10-50        page count in range; "10-" and "-50" are open ranges
+// An unknown @name: or a bad value is InvalidArgument naming it.
 // A bare word that the analyzer splits into several terms ("e-mail") counts as
 // separate ranked words; with + or - it counts as a phrase. Stopwords in bare
 // words are dropped with a warning. An unclosed quote runs to the end.
@@ -48,6 +58,7 @@ struct Clause {
 
 struct Query {
   std::vector<Clause> clauses;
+  DocFilter filter;                   // from @name:value items; empty() when none
   std::vector<std::string> warnings;  // e.g. "'the' is a stopword and was left out"
 };
 

@@ -221,4 +221,35 @@ Result<std::string> decompress_text(std::string_view blob) {
   return out;
 }
 
+std::string encode_page_map(const std::vector<PageStart>& pages) {
+  std::string out;
+  put_varint(out, pages.size());
+  PageStart prev;
+  for (const PageStart& p : pages) {
+    put_varint(out, p.position - prev.position);
+    put_varint(out, p.offset - prev.offset);
+    prev = p;
+  }
+  return out;
+}
+
+Status decode_page_map(std::string_view data, std::vector<PageStart>& out) {
+  out.clear();
+  if (data.empty()) return Status();  // a document without pages
+  Reader r(data);
+  std::uint64_t n = 0;
+  if (!r.varint(n) || n > r.remaining()) return Status::Corruption("page map: bad page count");
+  std::uint64_t pos = 0, off = 0;
+  for (std::uint64_t i = 0; i < n; ++i) {
+    std::uint64_t dp = 0, doff = 0;
+    if (!r.varint(dp) || !r.varint(doff)) return Status::Corruption("page map: truncated");
+    pos += dp;
+    off += doff;
+    if (pos > UINT32_MAX || off > UINT32_MAX) return Status::Corruption("page map: value out of range");
+    out.push_back(PageStart{static_cast<std::uint32_t>(pos), static_cast<std::uint32_t>(off)});
+  }
+  if (!r.at_end()) return Status::Corruption("page map: trailing bytes");
+  return Status();
+}
+
 }  // namespace lode::codec

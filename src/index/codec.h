@@ -74,8 +74,16 @@ void put_norm(std::string& chunk, std::uint32_t slot, const NormEntry& e);
 NormEntry get_norm(std::string_view chunk, std::uint32_t slot);  // REQUIRES: chunk sized
 
 // Stored text: 1 byte method (0 raw, 1 zstd) then the bytes.
-// A TextCompressor keeps one zstd context for many texts (creating a context
-// per text costs more than compressing a short one). Not thread-safe.
+// Page map of a paged document: count, then per page the deltas of its first
+// word position and its byte offset from the previous page's (both
+// non-decreasing); an empty blob is a document without pages. Corruption on
+// truncation, trailing bytes or overflow.
+std::string encode_page_map(const std::vector<PageStart>& pages);
+Status decode_page_map(std::string_view data, std::vector<PageStart>& out);
+
+// Stored text blobs: see "Stored text" above. A TextCompressor keeps one zstd
+// context for many texts (creating a context per text costs more than
+// compressing a short one). Not thread-safe.
 class TextCompressor {
  public:
   TextCompressor();

@@ -1,6 +1,7 @@
 // IndexReader: snapshot reads over the SQLite index.
 #include <filesystem>
 #include <unordered_map>
+#include <variant>
 
 #include "index/codec.h"
 #include "index/cursor.h"
@@ -31,14 +32,17 @@ struct IndexReader::Impl {
   bool in_scope = false;
   std::int64_t data_version = -1;
   std::unordered_map<std::uint32_t, std::string> norms;  // chunk -> bytes, this snapshot
-  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_version;
+  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_version, q_pages;
 
   Status prepare_all() {
     return db.prepare_all({
         {&q_term, "SELECT term_id, df, cf FROM terms WHERE field = ? AND term = ?"},
         {&q_term_by_id, "SELECT field, term, df, cf FROM terms WHERE term_id = ?"},
-        {&q_doc, "SELECT d.external_id, d.title, d.kind, coalesce(f.path, ''), d.len_title, d.len_body, d.live "
-                 "FROM docs d LEFT JOIN files f ON f.file_id = d.file_id WHERE d.doc_id = ?"},
+        {&q_doc, "SELECT d.external_id, d.title, d.kind, coalesce(f.path, ''), d.len_title, d.len_body, d.live, "
+                 "coalesce(m.author, ''), coalesce(m.date, 0), coalesce(m.pages, 0), coalesce(f.size, 0) "
+                 "FROM docs d LEFT JOIN files f ON f.file_id = d.file_id "
+                 "LEFT JOIN doc_meta m ON m.doc_id = d.doc_id WHERE d.doc_id = ?"},
+        {&q_pages, "SELECT page_map FROM doc_meta WHERE doc_id = ?"},
         {&q_external, "SELECT doc_id FROM docs WHERE external_id = ? AND live = 1 ORDER BY doc_id LIMIT 1"},
         {&q_text, "SELECT title, body FROM doc_text WHERE doc_id = ?"},
         {&q_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
@@ -184,6 +188,10 @@ Result<DocumentInfo> IndexReader::document(DocId doc) {
   d.path = std::string(q.text(3));
   d.length = {static_cast<std::uint32_t>(q.i64(4)), static_cast<std::uint32_t>(q.i64(5))};
   d.live = q.i64(6) != 0;
+  d.author = std::string(q.text(7));
+  d.date = q.i64(8);
+  d.pages = static_cast<std::uint32_t>(q.i64(9));
+  d.size = q.i64(10);
   return d;
 }
 
@@ -214,5 +222,67 @@ Result<std::vector<std::pair<TermId, std::uint32_t>>> IndexReader::forward(DocId
 }
 
 DocId IndexReader::doc_id_limit() const { return static_cast<DocId>(impl_->counters.next_doc_id); }
+
+Result<std::vector<PageStart>> IndexReader::pages(DocId doc) {
+  auto& q = impl_->q_pages;
+  q.bind(1, std::int64_t{doc});
+  std::vector<PageStart> out;
+  if (q.step()) {
+    Status s = codec::decode_page_map(q.blob(0), out);
+    q.reset();
+    if (!s.ok()) return Status::Corruption("document " + std::to_string(doc) + ": " + s.message());
+    return out;
+  }
+  Status s = q.status();
+  q.reset();
+  if (!s.ok()) return s;
+  return out;
+}
+
+Result<std::vector<DocId>> IndexReader::filter(const DocFilter& f) {
+  // Fixed SQL pieces with bound values only: no user text in the SQL.
+  std::string sql =
+      "SELECT d.doc_id FROM docs d LEFT JOIN files fl ON fl.file_id = d.file_id "
+      "LEFT JOIN doc_meta m ON m.doc_id = d.doc_id WHERE d.live = 1";
+  std::vector<std::variant<std::string, std::int64_t>> binds;
+  auto any_of = [&](const std::vector<std::string>& values, const char* test, int uses) {
+    if (values.empty()) return;
+    sql += " AND (";
+    for (std::size_t i = 0; i < values.size(); ++i) {
+      sql += std::string(i ? " OR " : "") + "(" + test + ")";
+      for (int k = 0; k < uses; ++k) binds.emplace_back(values[i]);
+    }
+    sql += ")";
+  };
+  any_of(f.kinds, "d.kind = ?", 1);
+  any_of(f.prefixes,
+         "substr(d.external_id, 1, length(?)) = ? OR substr(coalesce(fl.path, ''), 1, length(?)) = ?", 4);
+  auto number = [&](std::optional<std::int64_t> v, const char* test) {
+    if (!v) return;
+    sql += std::string(" AND ") + test;
+    binds.emplace_back(*v);
+  };
+  number(f.date_from, "coalesce(m.date, 0) >= ?");
+  number(f.date_to, "coalesce(m.date, 0) <= ?");
+  if (f.pages_min) number(std::int64_t{*f.pages_min}, "coalesce(m.pages, 0) >= ?");
+  if (f.pages_max) number(std::int64_t{*f.pages_max}, "coalesce(m.pages, 0) <= ?");
+  number(f.size_min, "coalesce(fl.size, 0) >= ?");
+  number(f.size_max, "coalesce(fl.size, 0) <= ?");
+  if (!f.author.empty()) any_of({f.author}, "instr(lower(coalesce(m.author, '')), lower(?)) > 0", 1);
+  sql += " ORDER BY d.doc_id";
+  auto q = impl_->db.prepare(sql);
+  if (!q) return q.status();
+  for (std::size_t i = 0; i < binds.size(); ++i) {
+    const int at = static_cast<int>(i + 1);
+    if (auto* t = std::get_if<std::string>(&binds[i])) q->bind(at, std::string_view(*t));
+    else q->bind(at, std::get<std::int64_t>(binds[i]));
+  }
+  std::vector<DocId> out;
+  while (q->step()) out.push_back(static_cast<DocId>(q->i64(0)));
+  LODE_RETURN_IF_ERROR(q->status());
+  return out;
+}
+
+Result<std::vector<RecordedProblem>> IndexReader::problems() { return schema::load_problems(impl_->db); }
 
 }  // namespace lode

@@ -51,6 +51,18 @@ CREATE TABLE positions(
 CREATE TABLE doc_terms(doc_id INTEGER PRIMARY KEY, data BLOB NOT NULL);
 CREATE TABLE doc_text(doc_id INTEGER PRIMARY KEY, title BLOB NOT NULL, body BLOB NOT NULL);
 CREATE TABLE norms(chunk INTEGER PRIMARY KEY, data BLOB NOT NULL);
+CREATE TABLE doc_meta(
+  doc_id INTEGER PRIMARY KEY,
+  author TEXT NOT NULL,
+  date INTEGER NOT NULL,
+  pages INTEGER NOT NULL,
+  page_map BLOB);
+CREATE TABLE problems(
+  path TEXT NOT NULL,
+  error INTEGER NOT NULL,
+  message TEXT NOT NULL,
+  time_ns INTEGER NOT NULL);
+CREATE INDEX problems_by_path ON problems(path);
 )sql";
 
 Status put_meta(sql::Db& db, std::string_view key, std::string_view text) {
@@ -104,6 +116,10 @@ Result<IndexSettings> load_settings(sql::Db& db) {
   LODE_RETURN_IF_ERROR(st->status());
   if (version < 0 || !have_language)
     return Status::Corruption(db.path() + ": not a lode index (meta table incomplete)");
+  if (version < kIndexFormatVersion)
+    return Status::Unsupported(db.path() + ": index format " + std::to_string(version) +
+                               " is older than this lode's (" + std::to_string(kIndexFormatVersion) +
+                               "); re-index: remove the file and run 'lode index' on your folders again");
   if (version > kIndexFormatVersion)
     return Status::Corruption(db.path() + ": index format " + std::to_string(version) +
                               " is newer than this lode understands (" +
@@ -152,6 +168,16 @@ Status configure(sql::Db& db, bool writer) {
     LODE_RETURN_IF_ERROR(db.exec("PRAGMA cache_size=-32768"));  // 32 MiB
   }
   return db.exec("PRAGMA temp_store=MEMORY");
+}
+
+Result<std::vector<RecordedProblem>> load_problems(sql::Db& db) {
+  auto q = db.prepare("SELECT path, error, message, time_ns FROM problems ORDER BY path, rowid");
+  if (!q) return q.status();
+  std::vector<RecordedProblem> out;
+  while (q->step())
+    out.push_back(RecordedProblem{std::string(q->text(0)), q->i64(1) != 0, std::string(q->text(2)), q->i64(3)});
+  LODE_RETURN_IF_ERROR(q->status());
+  return out;
 }
 
 std::uint64_t bytes_on_disk(const std::string& path) {

@@ -29,6 +29,9 @@ Status store_counters(sql::Db& db, const Counters& c);
 // Applies the pragmas every connection uses (WAL, foreign-free, page cache).
 Status configure(sql::Db& db, bool writer);
 
+// Every row of the problems table, by path then insertion order.
+Result<std::vector<RecordedProblem>> load_problems(sql::Db& db);
+
 // Size of the index file plus its WAL, in bytes (0 if missing).
 std::uint64_t bytes_on_disk(const std::string& path);
 

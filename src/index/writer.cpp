@@ -57,11 +57,12 @@ struct IndexWriter::Impl {
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
   sql::Stmt q_upsert_term, q_max_term, q_update_term, q_last_block, q_get_positions;
   sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
+  sql::Stmt q_put_meta, q_delete_meta;
 
   Status prepare_all();
   Status begin();
   Status remove_docs_of(std::int64_t file_id);
-  Status add_document(std::int64_t file_id, const DocumentInput& d);
+  Status add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns);
   Status flush();
   Status write_term(TermBuf& t, TermId id, bool had_blocks);
   Result<std::string*> norms_chunk(std::uint32_t chunk);
@@ -91,6 +92,8 @@ Status IndexWriter::Impl::prepare_all() {
       {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
       {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
       {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
+      {&q_put_meta, "INSERT OR REPLACE INTO doc_meta(doc_id, author, date, pages, page_map) VALUES(?,?,?,?,?)"},
+      {&q_delete_meta, "DELETE FROM doc_meta WHERE doc_id = ?"},
   });
 }
 
@@ -160,6 +163,7 @@ Status IndexWriter::Impl::remove_docs_of(std::int64_t file_id) {
     LODE_RETURN_IF_ERROR(q_kill_doc.bind(1, std::int64_t{d.id}).run());
     LODE_RETURN_IF_ERROR(q_delete_text.bind(1, std::int64_t{d.id}).run());
     LODE_RETURN_IF_ERROR(q_delete_fwd.bind(1, std::int64_t{d.id}).run());
+    LODE_RETURN_IF_ERROR(q_delete_meta.bind(1, std::int64_t{d.id}).run());
     auto chunk = norms_chunk(d.id / codec::kNormsPerChunk);
     if (!chunk) return chunk.status();
     codec::put_norm(**chunk, d.id % codec::kNormsPerChunk, codec::NormEntry{false, d.len});
@@ -170,7 +174,23 @@ Status IndexWriter::Impl::remove_docs_of(std::int64_t file_id) {
   return Status();
 }
 
-Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d) {
+// The first body word position on each page: the first token starting at
+// or after the page's byte offset (a page with no words starts where the
+// next word will be).
+std::vector<PageStart> page_map(const std::vector<std::uint32_t>& offsets, const std::vector<Token>& tokens) {
+  std::vector<PageStart> pages;
+  std::size_t t = 0;
+  std::uint32_t next_position = tokens.empty() ? 0 : tokens.back().position + 1;
+  for (std::uint32_t off : offsets) {
+    while (t < tokens.size() && tokens[t].begin < off) ++t;
+    const std::uint32_t pos = t < tokens.size() ? tokens[t].position : next_position;
+    const std::uint32_t prev_off = pages.empty() ? 0 : pages.back().offset;
+    pages.push_back(PageStart{pos, std::max(off, prev_off)});
+  }
+  return pages;
+}
+
+Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns) {
   DocId id = static_cast<DocId>(counters.next_doc_id++);
   if (first_pending == 0) first_pending = id;
   PendingDoc pd{id, {}};
@@ -180,6 +200,14 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
     auto fi = static_cast<std::size_t>(f);
     auto analyzed = analyzer->analyze(*text[fi]);
     len[fi] = static_cast<std::uint32_t>(analyzed.tokens.size());
+    if (f == Field::kBody) {
+      const std::string map =
+          d.page_offsets.empty() ? std::string() : codec::encode_page_map(page_map(d.page_offsets, analyzed.tokens));
+      q_put_meta.bind(1, std::int64_t{id}).bind(2, d.author)
+          .bind(3, d.date != 0 ? d.date : mtime_ns / 1000000000).bind(4, std::int64_t{d.pages});
+      q_put_meta.bind_blob(5, map);  // empty: not paged
+      LODE_RETURN_IF_ERROR(q_put_meta.run());
+    }
     // Group this field's tokens by term: a stable sort keeps positions ascending.
     by_term.clear();
     for (auto& t : analyzed.tokens) by_term.emplace_back(t.term, t.position);
@@ -439,7 +467,7 @@ Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentI
     file_id = m.db.last_insert_rowid();
     ++m.counters.files;
   }
-  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(file_id, d));
+  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(file_id, d, file.mtime_ns));
   bool by_size = m.batch_estimate >= m.options.batch_bytes;
   bool by_count = m.options.batch_documents != 0 && m.pending.size() >= m.options.batch_documents;
   if (by_size || by_count) return m.flush();
@@ -472,6 +500,45 @@ Status IndexWriter::remove_file(const std::string& path) {
   --m.counters.files;
   return Status();
 }
+
+Status IndexWriter::rename_file(const std::string& old_path, const FileRecord& file, const std::string& old_id,
+                                const std::string& new_id) {
+  auto& m = *impl_;
+  auto taken = this->file(file.path);
+  if (!taken) return taken.status();
+  if (taken->has_value()) return Status::InvalidArgument(file.path + ": already in the index (rename target)");
+  LODE_RETURN_IF_ERROR(m.begin());
+  auto q = m.db.prepare("UPDATE files SET path=?, root=?, size=?, mtime_ns=? WHERE path=? RETURNING file_id");
+  if (!q) return q.status();
+  q->bind(1, file.path).bind(2, file.root).bind(3, file.size).bind(4, file.mtime_ns).bind(5, old_path);
+  if (!q->step()) return q->status().ok() ? Status::NotFound(old_path + ": not in the index") : q->status();
+  const std::int64_t file_id = q->i64(0);
+  while (q->step()) {
+  }
+  LODE_RETURN_IF_ERROR(q->status());
+  auto ids = m.db.prepare(
+      "UPDATE docs SET external_id = ?1 || substr(external_id, length(?2) + 1) "
+      "WHERE file_id = ?3 AND live = 1 AND (external_id = ?2 OR substr(external_id, 1, length(?2) + 1) = ?2 || '#')");
+  if (!ids) return ids.status();
+  return ids->bind(1, new_id).bind(2, old_id).bind(3, file_id).run();
+}
+
+Status IndexWriter::record_problems(const std::string& path, const std::vector<RecordedProblem>& problems) {
+  auto& m = *impl_;
+  LODE_RETURN_IF_ERROR(m.begin());
+  auto del = m.db.prepare("DELETE FROM problems WHERE path = ?");
+  if (!del) return del.status();
+  LODE_RETURN_IF_ERROR(del->bind(1, path).run());
+  auto ins = m.db.prepare("INSERT INTO problems(path, error, message, time_ns) VALUES(?,?,?,?)");
+  if (!ins) return ins.status();
+  for (const auto& p : problems) {
+    LODE_RETURN_IF_ERROR(ins->bind(1, path).bind(2, std::int64_t{p.error ? 1 : 0}).bind(3, p.message)
+                             .bind(4, p.time_ns).run());
+  }
+  return Status();
+}
+
+Result<std::vector<RecordedProblem>> IndexWriter::problems() { return schema::load_problems(impl_->db); }
 
 Status IndexWriter::commit() {
   if (!impl_->in_txn) return Status();

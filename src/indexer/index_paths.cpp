@@ -1,37 +1,238 @@
+// index_paths(): crawl, decide per file (unchanged / read / rename / remove),
+// extract in parallel, apply on this thread, commit.
+#include <chrono>
 #include <filesystem>
+#include <map>
 #include <set>
+#include <thread>
+#include <unordered_map>
 
+#include "indexer/extract_pool.h"
+#include "indexer/paths.h"
 #include "lode/indexer.h"
 
 namespace lode {
 namespace {
 
 namespace fs = std::filesystem;
+using indexer::ReadJob;
 
-std::string absolute_root(const std::string& root) {
+std::int64_t now_ns() {
+  return std::chrono::duration_cast<std::chrono::nanoseconds>(std::chrono::system_clock::now().time_since_epoch())
+      .count();
+}
+
+// Every file the index holds under the roots, by path.
+Result<std::map<std::string, FileRecord>> held_under(IndexWriter& writer, const std::vector<std::string>& roots) {
+  std::map<std::string, FileRecord> held;
+  for (auto& root : roots) {
+    std::error_code ec;
+    const bool is_dir = fs::is_directory(root, ec);
+    auto files = writer.files_with_prefix(is_dir ? (root == "/" ? root : root + "/") : root);
+    if (!files) return files.status();
+    for (auto& f : *files)
+      if (is_dir || f.path == root) held.emplace(f.path, std::move(f));
+  }
+  return held;
+}
+
+bool under_problem(const std::string& path, const std::vector<CrawlProblem>& problems) {
+  for (auto& p : problems)
+    if (path == p.path || indexer::is_under(path, p.path)) return true;
+  return false;
+}
+
+class Run {
+ public:
+  Run(IndexWriter& w, const IndexRunOptions& o, const std::function<void(const IndexProgress&)>& progress)
+      : writer_(w), options_(o), progress_(progress) {}
+  Result<IndexReport> go(const std::vector<std::string>& roots);
+
+ private:
+  Status apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old);
+  Status fail(const std::string& path, const Status& why, bool had_old);
+  Status store_problems(const std::string& path, std::vector<RecordedProblem> problems);
+
+  IndexWriter& writer_;
+  const IndexRunOptions& options_;
+  const std::function<void(const IndexProgress&)>& progress_;
+  std::vector<std::string> roots_;
+  IndexReport report_;
+  std::set<std::string> problem_paths_;  // paths with problems recorded before this run
+  std::set<std::string> recorded_;       // paths whose problems this run rewrote
+  // Vanished files by size, for rename detection; erased when claimed.
+  std::multimap<std::int64_t, FileRecord> missing_;
+};
+
+Status Run::store_problems(const std::string& path, std::vector<RecordedProblem> problems) {
+  recorded_.insert(path);
+  if (problems.empty() && !problem_paths_.count(path)) return Status();
+  return writer_.record_problems(path, problems);
+}
+
+Status Run::fail(const std::string& path, const Status& why, bool had_old) {
+  ++report_.failed;
+  auto& kind = report_.by_kind[indexer::kind_of_name(path)];
+  ++kind.failed;
+  // Reader errors start with the path; the report names it apart.
+  std::string reason = why.message();
+  if (reason.compare(0, path.size() + 2, path + ": ") == 0) reason.erase(0, path.size() + 2);
+  report_.problems.push_back({path, reason});
+  LODE_RETURN_IF_ERROR(store_problems(path, {RecordedProblem{path, true, reason, now_ns()}}));
+  if (why.code() == Code::kNotFound && had_old) {  // vanished mid-run
+    LODE_RETURN_IF_ERROR(writer_.remove_file(path));
+    ++report_.removed;
+  }
+  return Status();
+}
+
+Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old) {
+  const std::string root = indexer::root_of(info.path, roots_);
+  if (!out.renamed_hash.empty()) {
+    for (auto it = missing_.lower_bound(info.size); it != missing_.end() && it->first == info.size; ++it) {
+      if (it->second.hash != out.renamed_hash) continue;
+      const FileRecord was = it->second;
+      missing_.erase(it);
+      FileRecord now = was;
+      now.path = info.path;
+      now.root = root;
+      now.mtime_ns = info.mtime_ns;
+      LODE_RETURN_IF_ERROR(writer_.rename_file(was.path, now, indexer::relative_id(was.path, was.root),
+                                               indexer::relative_id(info.path, root)));
+      if (problem_paths_.count(was.path)) LODE_RETURN_IF_ERROR(writer_.record_problems(was.path, {}));
+      ++report_.renamed;
+      return Status();
+    }
+    // Claimed by an earlier file with the same content: read this one.
+    out.read = read_file(info.path, options_.read);
+  }
+  Result<ReadResult>& read = *out.read;
+  if (!read) return fail(info.path, read.status(), old.has_value());
+  // Read ahead by a worker, then deleted before its turn: the index must not
+  // hold a file that is gone when its batch commits.
   std::error_code ec;
-  fs::path p = fs::absolute(fs::path(root), ec).lexically_normal();
-  std::string s = p.generic_string();
-  while (s.size() > 1 && s.back() == '/') s.pop_back();
-  return s;
+  if (!fs::exists(info.path, ec) && !ec)
+    return fail(info.path, Status::NotFound("vanished while being indexed"), old.has_value());
+  report_.bytes_read += static_cast<std::uint64_t>(read->size);
+  std::vector<RecordedProblem> warnings;
+  for (auto& w : read->warnings) {
+    report_.warnings.push_back({info.path, w});
+    warnings.push_back(RecordedProblem{info.path, false, w, now_ns()});
+  }
+  LODE_RETURN_IF_ERROR(store_problems(info.path, std::move(warnings)));
+  FileRecord rec{info.path, root, read->size, read->mtime_ns, read->content_hash,
+                 read->documents.empty() ? indexer::kind_of_name(info.path) : read->documents.front().kind};
+  if (old && old->hash == read->content_hash) {
+    LODE_RETURN_IF_ERROR(writer_.touch_file(rec));
+    ++report_.unchanged;
+    return Status();
+  }
+  const std::string rel = indexer::relative_id(info.path, root);
+  std::vector<DocumentInput> docs;
+  docs.reserve(read->documents.size());
+  for (auto& d : read->documents) {
+    DocumentInput in{indexer::document_id(d.external_id, info.path, rel, d.kind), std::move(d.title),
+                     std::move(d.body), std::move(d.kind), std::move(d.author), d.date, d.pages,
+                     std::move(d.page_starts)};
+    docs.push_back(std::move(in));
+  }
+  LODE_RETURN_IF_ERROR(writer_.put_file(rec, docs));
+  auto& kind = report_.by_kind[rec.kind];
+  ++kind.files;
+  kind.documents += docs.size();
+  kind.bytes += static_cast<std::uint64_t>(read->size);
+  report_.documents += docs.size();
+  ++(old ? report_.updated : report_.added);
+  return Status();
 }
 
-// The root a file was found under: the longest root that is a prefix folder.
-std::string root_of(const std::string& path, const std::vector<std::string>& roots) {
-  std::string best;
-  for (auto& r : roots)
-    if ((path == r || (path.size() > r.size() && path.compare(0, r.size(), r) == 0 &&
-                       (r == "/" || path[r.size()] == '/'))) &&
-        r.size() > best.size())
-      best = r;
-  return best;
-}
+Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
+  for (auto& r : roots) roots_.push_back(indexer::absolute_root(r));
+  auto crawled = crawl(roots_, options_.crawl);
+  if (!crawled) return crawled.status();
+  for (auto& p : crawled->problems) {
+    report_.problems.push_back({p.path, p.reason});
+    ++report_.by_kind["?"].failed;
+  }
+  auto held = held_under(writer_, roots_);
+  if (!held) return held.status();
+  auto recorded = writer_.problems();
+  if (!recorded) return recorded.status();
+  for (auto& p : *recorded) problem_paths_.insert(p.path);
+  for (auto& p : crawled->problems)
+    LODE_RETURN_IF_ERROR(store_problems(p.path, {RecordedProblem{p.path, true, p.reason, now_ns()}}));
 
-// Users see ids relative to the root they indexed, so runs and judgments
-// survive moving the archive.
-std::string relative_id(const std::string& path, const std::string& root) {
-  if (path == root) return fs::path(path).filename().generic_string();
-  return path.substr(root == "/" ? 1 : root.size() + 1);
+  // Files held but not crawled: gone (or renamed) unless a crawl problem hides them.
+  std::set<std::string> crawled_paths;
+  for (auto& f : crawled->files) crawled_paths.insert(f.path);
+  std::vector<std::string> gone;
+  if (options_.remove_missing)
+    for (auto& [path, rec] : *held)
+      if (!crawled_paths.count(path) && !under_problem(path, crawled->problems)) {
+        gone.push_back(path);
+        missing_.emplace(rec.size, rec);
+      }
+
+  // Decide which files need reading.
+  IndexProgress prog;
+  std::vector<std::pair<const FileInfo*, std::optional<FileRecord>>> todo;
+  std::vector<ReadJob> jobs;
+  for (const FileInfo& info : crawled->files) {
+    prog.bytes_total += static_cast<std::uint64_t>(info.size);
+    auto it = held->find(info.path);
+    std::optional<FileRecord> old;
+    if (it != held->end()) old = it->second;
+    if (old && old->size == info.size && old->mtime_ns == info.mtime_ns && old->root == indexer::root_of(info.path, roots_)) {
+      ++report_.unchanged;
+      prog.bytes_done += static_cast<std::uint64_t>(info.size);
+      continue;
+    }
+    ReadJob job{info.path, {}};
+    if (!old)
+      for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
+        job.rename_hashes.insert(m->second.hash);
+    jobs.push_back(std::move(job));
+    todo.emplace_back(&info, std::move(old));
+  }
+  prog.files_total = crawled->files.size();
+  prog.files_done = crawled->files.size() - todo.size();
+
+  {
+    const unsigned threads = options_.jobs != 0 ? options_.jobs : std::max(1u, std::thread::hardware_concurrency());
+    indexer::ExtractPool pool(std::move(jobs), options_.read, threads, options_.read_ahead);
+    for (std::size_t i = 0; i < todo.size(); ++i) {
+      if (options_.cancelled && options_.cancelled()) {
+        report_.cancelled = true;
+        break;
+      }
+      const FileInfo& info = *todo[i].first;
+      prog.current = info.path;
+      if (progress_) progress_(prog);
+      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), todo[i].second));
+      ++prog.files_done;
+      prog.bytes_done += static_cast<std::uint64_t>(info.size);
+    }
+  }
+  if (progress_) {
+    prog.current = {};
+    progress_(prog);
+  }
+
+  if (!report_.cancelled) {
+    for (auto& path : gone) {
+      bool still_missing = false;  // not claimed by a rename
+      for (auto& [size, rec] : missing_) still_missing |= rec.path == path;
+      if (!still_missing) continue;
+      LODE_RETURN_IF_ERROR(writer_.remove_file(path));
+      ++report_.removed;
+    }
+    // Problems of paths under the roots that are gone or now read cleanly.
+    for (auto& path : problem_paths_)
+      if (!recorded_.count(path) && !crawled_paths.count(path) && indexer::root_of(path, roots_).size() > 0)
+        LODE_RETURN_IF_ERROR(writer_.record_problems(path, {}));
+  }
+  LODE_RETURN_IF_ERROR(writer_.commit());
+  return std::move(report_);
 }
 
 }  // namespace
@@ -39,91 +240,8 @@ std::string relative_id(const std::string& path, const std::string& root) {
 Result<IndexReport> index_paths(IndexWriter& writer, const std::vector<std::string>& roots,
                                 const IndexRunOptions& options,
                                 const std::function<void(const IndexProgress&)>& progress) {
-  std::vector<std::string> abs_roots;
-  for (auto& r : roots) abs_roots.push_back(absolute_root(r));
-  auto crawled = crawl(abs_roots, options.crawl);
-  if (!crawled) return crawled.status();
-  IndexReport report;
-  for (auto& p : crawled->problems) report.problems.push_back({p.path, p.reason});
-
-  IndexProgress prog;
-  prog.files_total = crawled->files.size();
-  for (auto& f : crawled->files) prog.bytes_total += static_cast<std::uint64_t>(f.size);
-
-  std::set<std::string> seen;
-  for (const FileInfo& info : crawled->files) {
-    if (options.cancelled && options.cancelled()) {
-      report.cancelled = true;
-      break;
-    }
-    seen.insert(info.path);
-    prog.current = info.path;
-    if (progress) progress(prog);
-    ++prog.files_done;
-    prog.bytes_done += static_cast<std::uint64_t>(info.size);
-
-    std::string root = root_of(info.path, abs_roots);
-    auto recorded = writer.file(info.path);
-    if (!recorded) return recorded.status();
-    const std::optional<FileRecord>& old = *recorded;
-    if (old && old->size == info.size && old->mtime_ns == info.mtime_ns && old->root == root) {
-      ++report.unchanged;
-      continue;
-    }
-    auto read = read_file(info.path, options.read);
-    if (!read) {
-      ++report.failed;
-      report.problems.push_back({info.path, read.status().message()});
-      if (read.status().code() == Code::kNotFound && old) {  // vanished mid-run
-        LODE_RETURN_IF_ERROR(writer.remove_file(info.path));
-        ++report.removed;
-      }
-      continue;
-    }
-    report.bytes_read += static_cast<std::uint64_t>(info.size);
-    for (auto& w : read->warnings) report.warnings.push_back({info.path, w});
-    FileRecord rec{info.path, root, info.size, info.mtime_ns, read->content_hash,
-                   read->documents.empty() ? "text" : read->documents.front().kind};
-    if (old && old->hash == read->content_hash) {
-      LODE_RETURN_IF_ERROR(writer.touch_file(rec));
-      ++report.unchanged;
-      continue;
-    }
-    std::string rel = relative_id(info.path, root);
-    std::vector<DocumentInput> docs;
-    docs.reserve(read->documents.size());
-    for (auto& d : read->documents) {
-      std::string id = d.external_id;
-      if (d.kind != "jsonl" || id.empty()) id = rel;
-      else if (id.compare(0, info.path.size() + 1, info.path + "#") == 0) id = rel + id.substr(info.path.size());
-      docs.push_back(DocumentInput{std::move(id), std::move(d.title), std::move(d.body), std::move(d.kind)});
-    }
-    LODE_RETURN_IF_ERROR(writer.put_file(rec, docs));
-    report.documents += docs.size();
-    ++(old ? report.updated : report.added);
-  }
-
-  if (options.remove_missing && !report.cancelled) {
-    for (auto& root : abs_roots) {
-      std::error_code ec;
-      bool is_dir = fs::is_directory(root, ec);
-      auto held = writer.files_with_prefix(is_dir ? (root == "/" ? root : root + "/") : root);
-      if (!held) return held.status();
-      for (auto& f : *held) {
-        if (!is_dir && f.path != root) continue;
-        if (seen.count(f.path)) continue;
-        bool unreachable = false;  // under a folder the crawl could not read: keep it
-        for (auto& p : crawled->problems)
-          if (f.path == p.path || f.path.compare(0, p.path.size() + 1, p.path + "/") == 0) unreachable = true;
-        if (unreachable) continue;
-        // Excluded by the glob options now, or gone: either way not under this root's crawl.
-        LODE_RETURN_IF_ERROR(writer.remove_file(f.path));
-        ++report.removed;
-      }
-    }
-  }
-  LODE_RETURN_IF_ERROR(writer.commit());
-  return report;
+  Run run(writer, options, progress);
+  return run.go(roots);
 }
 
 }  // namespace lode

@@ -4,6 +4,7 @@
 #include <cstring>
 #include <utility>
 
+#include "ingest/charset.h"
 #include "lode/analysis.h"
 
 namespace lode::ingest {
@@ -13,6 +14,16 @@ namespace {
 std::size_t count_chars(std::string_view s) {
   std::size_t n = 0;
   for (const char c : s) n += (static_cast<unsigned char>(c) & 0xC0) != 0x80;
+  return n;
+}
+
+// Invalid sequences needed before a legacy charset is considered.
+constexpr std::size_t kMinLegacyBytes = 3;
+
+// Characters of valid UTF-8 text that take more than one byte.
+std::size_t count_multibyte(std::string_view s) {
+  std::size_t n = 0;
+  for (const char c : s) n += (static_cast<unsigned char>(c) & 0xC0) == 0xC0;
   return n;
 }
 
@@ -49,6 +60,21 @@ Result<DecodedText> decode_text(std::string_view bytes, const std::string& path)
     out.text.assign(body);
   } else {
     Utf8Repair fixed = repair_utf8(body);
+    // Text with no valid multi-byte UTF-8 at all was written in another
+    // encoding; text with some is UTF-8 with damage, repaired below.
+    // One or two stray bytes are too little for ICU to tell an encoding
+    // from damage (common practice: detection wants some evidence).
+    if (fixed.replaced >= kMinLegacyBytes && fixed.replaced == count_multibyte(fixed.text)) {
+      if (auto cs = detect_charset(body)) {
+        auto text = convert_to_utf8(body, cs->name);
+        if (text.ok()) {
+          out.text = normalise_newlines(std::move(text).value());
+          out.warning = "not UTF-8: decoded as " + cs->name + " (ICU detection, confidence " +
+                        std::to_string(cs->confidence) + "%)";
+          return out;
+        }
+      }
+    }
     // Rule of thumb (common practice): text in a legacy 8-bit encoding has a
     // minority of non-ASCII characters; binary data has a large share of bytes
     // that are not UTF-8. 30% separates the two comfortably.

@@ -14,12 +14,15 @@ inline constexpr std::size_t kBinarySniffBytes = 8192;
 
 struct DecodedText {
   std::string text;     // valid UTF-8, no BOM, lines end in '\n' only
-  std::string warning;  // empty, or the one invalid-UTF-8 warning for the file
+  std::string warning;  // empty, or the one invalid-UTF-8 / charset warning for the file
 };
 
 // Unsupported ("<path>: binary file ...") when the bytes hold a NUL within the
 // first kBinarySniffBytes, or when more than 30% of the characters would be
-// replacement characters; otherwise the decoded text. `path` only names the
+// replacement characters; otherwise the decoded text. Bytes that are not
+// UTF-8 and hold no valid multi-byte UTF-8 sequence are converted from the
+// charset ICU detects (when it is confident), with a "not UTF-8: decoded as
+// ..." warning; otherwise invalid sequences become U+FFFD. `path` only names the
 // file in messages.
 Result<DecodedText> decode_text(std::string_view bytes, const std::string& path);
 

@@ -12,12 +12,7 @@ Parsed read_plain_text(std::string_view text, const std::string& path) {
   Document doc;
   doc.external_id = path;
   doc.kind = "text";
-  for (const std::string_view line : split_lines(text)) {
-    if (!trim(line).empty()) {
-      doc.title = make_title(line);
-      break;
-    }
-  }
+  doc.title = first_line_title(text);
   doc.body = std::string(text);
   out.documents.push_back(std::move(doc));
   return out;

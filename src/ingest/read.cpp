@@ -13,6 +13,7 @@
 
 #include "ingest/decode.h"
 #include "ingest/readers.h"
+#include "ingest/text_util.h"
 #include "lode/ingest.h"
 
 namespace lode {
@@ -39,7 +40,12 @@ Status too_large(const std::string& path, std::int64_t size, std::int64_t limit)
                        std::to_string(limit) + " bytes");
 }
 
-Result<std::string> read_bytes(const std::string& path, std::int64_t max_bytes) {
+struct FileBytes {
+  std::string data;
+  std::int64_t mtime_ns = 0;
+};
+
+Result<FileBytes> read_bytes(const std::string& path, std::int64_t max_bytes) {
   FileDescriptor fd(::open(path.c_str(), O_RDONLY | O_CLOEXEC | O_NONBLOCK));
   if (fd.get() < 0) {
     const int err = errno;
@@ -78,7 +84,14 @@ Result<std::string> read_bytes(const std::string& path, std::int64_t max_bytes) 
     if (max_bytes > 0 && total > max_bytes) return too_large(path, total, max_bytes);
   }
   data.resize(have);  // the file shrank, if have < st_size
-  return data;
+  // A writer busy with the file while we read it leaves a torn copy: refuse
+  // it now; the next run sees the finished file.
+  struct stat after {};
+  if (::fstat(fd.get(), &after) == 0 &&
+      (after.st_size != st.st_size || after.st_mtim.tv_sec != st.st_mtim.tv_sec ||
+       after.st_mtim.tv_nsec != st.st_mtim.tv_nsec || static_cast<std::int64_t>(have) != size))
+    return Status::IOError(path + ": changed while being read (size or modification time moved)");
+  return FileBytes{std::move(data), std::int64_t{st.st_mtim.tv_sec} * 1000000000 + st.st_mtim.tv_nsec};
 }
 
 std::string hash_hex(std::string_view bytes) {
@@ -96,38 +109,108 @@ std::string hash_hex(std::string_view bytes) {
   return out;
 }
 
-enum class Format { kText, kMarkdown, kJsonl };
+enum class Format { kText, kMarkdown, kJsonl, kHtml, kPdf, kZip, kEml, kMbox, kGzip };
 
-Format format_of(const std::string& path) {
-  std::string ext = std::filesystem::path(path).extension().string();
+std::string lower_extension(std::string_view name) {
+  std::string ext = std::filesystem::path(std::string(name)).extension().string();
   std::transform(ext.begin(), ext.end(), ext.begin(),
                  [](unsigned char c) { return static_cast<char>(c >= 'A' && c <= 'Z' ? c + 32 : c); });
+  return ext;
+}
+
+// Content decides for the formats with a signature (a PDF named .txt is
+// still a PDF); the extension decides the rest.
+Format format_of(std::string_view name, std::string_view bytes) {
+  if (bytes.substr(0, 2) == "\x1f\x8b") return Format::kGzip;
+  if (bytes.substr(0, 5) == "%PDF-") return Format::kPdf;
+  if (bytes.substr(0, 4) == "PK\x03\x04") return Format::kZip;
+  const std::string ext = lower_extension(name);
   if (ext == ".jsonl" || ext == ".ndjson") return Format::kJsonl;
   if (ext == ".md" || ext == ".markdown") return Format::kMarkdown;
+  if (ext == ".html" || ext == ".htm" || ext == ".xhtml") return Format::kHtml;
+  if (ext == ".pdf") return Format::kPdf;
+  if (ext == ".docx" || ext == ".odt" || ext == ".epub") return Format::kZip;
+  if (ext == ".eml") return Format::kEml;
+  if (ext == ".mbox" || ext == ".mbx") return Format::kMbox;
   return Format::kText;  // .txt, .text, no extension, and anything that decodes as text
+}
+
+// Reads `bytes` as the format `name` implies; `path` names the file in
+// messages. A gzip file is unpacked once and read by its inner name.
+Result<ingest::Parsed> parse(std::string_view bytes, std::string_view name, const std::string& path,
+                             const ReadOptions& options, bool inside_gzip) {
+  const Format format = format_of(name, bytes);
+  switch (format) {
+    case Format::kGzip: {
+      if (inside_gzip) return Status::Unsupported(path + ": gzip inside gzip is not read");
+      auto inner = ingest::gunzip(bytes, path, options.max_unpacked_bytes);
+      if (!inner) return inner.status();
+      const std::string ext = lower_extension(name);
+      const std::string_view inner_name = ext == ".gz" ? name.substr(0, name.size() - 3) : name;
+      return parse(*inner, inner_name, path, options, true);
+    }
+    case Format::kPdf: return ingest::read_pdf(bytes, path, options);
+    case Format::kZip: return ingest::read_zip_document(bytes, path, options);
+    case Format::kHtml: return ingest::read_html(bytes, path, options);
+    case Format::kEml: return ingest::read_mail(bytes, path, options, false);
+    case Format::kMbox: return ingest::read_mail(bytes, path, options, true);
+    default: break;
+  }
+  Result<ingest::DecodedText> decoded = ingest::decode_text(bytes, path);
+  if (!decoded.ok()) return decoded.status();
+  ingest::Parsed parsed;
+  switch (format) {
+    case Format::kJsonl: parsed = ingest::read_jsonl(decoded->text, path, options); break;
+    case Format::kMarkdown: parsed = ingest::read_markdown(decoded->text, path); break;
+    default: parsed = ingest::read_plain_text(decoded->text, path); break;
+  }
+  if (!decoded->warning.empty()) parsed.warnings.insert(parsed.warnings.begin(), decoded->warning);
+  return parsed;
+}
+
+// Holds the documents' text to `max_bytes` in all, cutting at a character
+// boundary and dropping documents past the cut.
+void cap_text(std::vector<Document>& docs, std::int64_t max_bytes, std::vector<std::string>& warnings) {
+  if (max_bytes <= 0) return;
+  auto left = static_cast<std::size_t>(max_bytes);
+  for (std::size_t i = 0; i < docs.size(); ++i) {
+    Document& d = docs[i];
+    if (d.body.size() + d.title.size() <= left) {
+      left -= d.body.size() + d.title.size();
+      continue;
+    }
+    d.body.resize(ingest::cut_utf8(d.body, left > d.title.size() ? left - d.title.size() : 0).size());
+    while (!d.page_starts.empty() && d.page_starts.back() > d.body.size()) d.page_starts.pop_back();
+    warnings.push_back("extracted text cut at the limit of " + std::to_string(max_bytes) + " bytes" +
+                       (i + 1 < docs.size() ? " (" + std::to_string(docs.size() - i - 1) + " documents dropped)" : ""));
+    docs.resize(i + 1);
+    return;
+  }
 }
 
 }  // namespace
 
 Result<ReadResult> read_file(const std::string& path, const ReadOptions& options) {
-  Result<std::string> bytes = read_bytes(path, options.max_file_bytes);
-  if (!bytes.ok()) return bytes.status();
+  Result<FileBytes> file = read_bytes(path, options.max_file_bytes);
+  if (!file.ok()) return file.status();
+  const std::string& bytes = file->data;
 
   ReadResult result;
-  result.content_hash = hash_hex(*bytes);
-  Result<ingest::DecodedText> decoded = ingest::decode_text(*bytes, path);
-  if (!decoded.ok()) return decoded.status();
-  if (!decoded->warning.empty()) result.warnings.push_back(decoded->warning);
-
-  ingest::Parsed parsed;
-  switch (format_of(path)) {
-    case Format::kJsonl: parsed = ingest::read_jsonl(decoded->text, path, options); break;
-    case Format::kMarkdown: parsed = ingest::read_markdown(decoded->text, path); break;
-    case Format::kText: parsed = ingest::read_plain_text(decoded->text, path); break;
-  }
-  result.documents = std::move(parsed.documents);
-  result.warnings.insert(result.warnings.end(), parsed.warnings.begin(), parsed.warnings.end());
+  result.content_hash = hash_hex(bytes);
+  result.size = static_cast<std::int64_t>(bytes.size());
+  result.mtime_ns = file->mtime_ns;
+  auto parsed = parse(bytes, std::filesystem::path(path).filename().string(), path, options, false);
+  if (!parsed) return parsed.status();
+  result.documents = std::move(parsed->documents);
+  result.warnings = std::move(parsed->warnings);
+  cap_text(result.documents, options.max_text_bytes, result.warnings);
   return result;
+}
+
+Result<std::string> hash_file(const std::string& path, const ReadOptions& options) {
+  Result<FileBytes> file = read_bytes(path, options.max_file_bytes);
+  if (!file.ok()) return file.status();
+  return hash_hex(file->data);
 }
 
 }  // namespace lode

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "lode/ingest.h"
+#include "lode/status.h"
 
 namespace lode::ingest {
 
@@ -28,5 +29,16 @@ Parsed read_markdown(std::string_view text, const std::string& path);
 
 // JSON Lines: one document per valid non-blank line.
 Parsed read_jsonl(std::string_view text, const std::string& path, const ReadOptions& options);
+
+// Readers of the raw file bytes. Unlike the text readers they can fail: the
+// status names the file and the reason (see read_file in lode/ingest.h).
+Result<Parsed> read_html(std::string_view bytes, const std::string& path, const ReadOptions& options);
+Result<Parsed> read_pdf(std::string_view bytes, const std::string& path, const ReadOptions& options);
+// DOCX, ODT or EPUB, told apart by the container's entries.
+Result<Parsed> read_zip_document(std::string_view bytes, const std::string& path, const ReadOptions& options);
+// One message (.eml), or each message of an mbox file with ids "<path>#<n>".
+Result<Parsed> read_mail(std::string_view bytes, const std::string& path, const ReadOptions& options, bool mbox);
+// The decompressed bytes of a gzip file (all members).
+Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked);
 
 }  // namespace lode::ingest

@@ -67,4 +67,10 @@ std::string utf8_encode(char32_t cp) {
   return out;
 }
 
+std::string first_line_title(std::string_view text) {
+  for (const std::string_view line : split_lines(text))
+    if (!trim(line).empty()) return make_title(line);
+  return {};
+}
+
 }  // namespace lode::ingest

@@ -25,6 +25,9 @@ std::string_view cut_utf8(std::string_view s, std::size_t max_bytes);
 // A title from one line: trimmed, cut to kMaxTitleBytes.
 std::string make_title(std::string_view line);
 
+// A title from the first non-blank line of `text` (make_title), or "".
+std::string first_line_title(std::string_view text);
+
 // Lines of `text` split on '\n'; a '\r' before the '\n' (or a lone '\r' at the
 // end) is dropped, so CRLF input needs no prior conversion. A final newline
 // does not start an extra empty line.

@@ -1,6 +1,7 @@
 #include <cctype>
 
 #include "lode/query.h"
+#include "query/filter.h"
 
 namespace lode {
 namespace {
@@ -66,6 +67,11 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
   std::size_t total_words = 0;
   std::string left_out;  // items without searchable words, reported in one note
   for (const RawItem& item : split_items(text)) {
+    if (!item.quoted && item.occur == Occur::kShould && !item.field) {
+      auto is_filter = query::apply_filter_item(item.text, query.filter);
+      if (!is_filter) return is_filter.status();
+      if (*is_filter) continue;
+    }
     auto analyzed = analyzer.analyze(item.text);
     total_words += analyzed.tokens.size();
     if (total_words > limits.max_terms)

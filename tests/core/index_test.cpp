@@ -127,9 +127,9 @@ TEST_CASE("many updates of one file keep df, cf and lengths exact") {
     FileRecord f{"/v/x", "/v", round, round, "h" + std::to_string(round), "text"};
     std::string body = "alpha beta";
     for (int i = 0; i < round % 7; ++i) body += " gamma";
-    REQUIRE((*w)->put_file(f, {DocumentInput{"x", "", body, "text"}}).ok());
+    REQUIRE((*w)->put_file(f, {doc_input("x", "", body)}).ok());
     FileRecord g{"/v/y" + std::to_string(round), "/v", 1, 1, "g", "text"};
-    REQUIRE((*w)->put_file(g, {DocumentInput{"y", "", "alpha", "text"}}).ok());
+    REQUIRE((*w)->put_file(g, {doc_input("y", "", "alpha")}).ok());
     if (round % 50 == 0) REQUIRE((*w)->commit().ok());
   }
   REQUIRE((*w)->commit().ok());
@@ -220,7 +220,7 @@ TEST_CASE("a process killed mid-batch leaves the last committed index intact") {
     if (!w.ok()) _exit(2);
     for (int i = 0; i < 50; ++i) {
       FileRecord f{"/v/new" + std::to_string(i), "/v", 1, 1, "h", "text"};
-      if (!(*w)->put_file(f, {DocumentInput{"n", "Uncommitted", "lost words", "text"}}).ok()) _exit(3);
+      if (!(*w)->put_file(f, {doc_input("n", "Uncommitted", "lost words")}).ok()) _exit(3);
     }
     _exit(0);  // no commit, no destructors: as abrupt as a crash
   }
@@ -251,7 +251,7 @@ TEST_CASE("a reader's scope is one snapshot while a writer commits") {
     CHECK((*reader)->stats().documents == 1);
     auto w = IndexWriter::open(index, std::nullopt);
     REQUIRE(w.ok());
-    REQUIRE((*w)->put_file(FileRecord{"/v/2", "/v", 1, 1, "h", "text"}, {DocumentInput{"2", "Two", "second", "text"}}).ok());
+    REQUIRE((*w)->put_file(FileRecord{"/v/2", "/v", 1, 1, "h", "text"}, {doc_input("2", "Two", "second")}).ok());
     REQUIRE((*w)->commit().ok());
     CHECK((*reader)->stats().documents == 1);
     auto t = (*reader)->term(Field::kBody, "second");

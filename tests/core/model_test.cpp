@@ -117,7 +117,7 @@ TEST_CASE("random adds, replacements and removals score exactly like a brute-for
         model.docs.erase(id);
       } else {
         Tokens t = random_doc();
-        REQUIRE((*w)->put_file(f, {DocumentInput{id, "", join(t), "text"}}).ok());
+        REQUIRE((*w)->put_file(f, {doc_input(id, "", join(t))}).ok());
         model.docs[id] = t;
       }
     }

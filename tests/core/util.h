@@ -53,6 +53,16 @@ inline std::string read_text(const fs::path& p) {
   return std::string(std::istreambuf_iterator<char>(in), {});
 }
 
+// A document with just identity and text (other fields at their defaults).
+inline DocumentInput doc_input(std::string id, std::string title, std::string body) {
+  DocumentInput d;
+  d.external_id = std::move(id);
+  d.title = std::move(title);
+  d.body = std::move(body);
+  d.kind = "text";
+  return d;
+}
+
 // Builds an index at `path` holding one file per document (title, body).
 inline void build_index(const std::string& path, const std::vector<std::pair<std::string, std::string>>& docs,
                         const AnalyzerOptions& analyzer = {}) {
@@ -61,7 +71,7 @@ inline void build_index(const std::string& path, const std::vector<std::pair<std
   for (std::size_t i = 0; i < docs.size(); ++i) {
     std::string id = "d" + std::to_string(i + 1);
     FileRecord f{"/virtual/" + id, "/virtual", 1, 1, "h" + id, "text"};
-    REQUIRE((*w)->put_file(f, {DocumentInput{id, docs[i].first, docs[i].second, "text"}}).ok());
+    REQUIRE((*w)->put_file(f, {doc_input(id, docs[i].first, docs[i].second)}).ok());
   }
   REQUIRE((*w)->commit().ok());
 }

@@ -86,11 +86,25 @@ TEST_CASE("binary files are refused naming the file") {
 
 TEST_CASE("invalid UTF-8 is repaired with one warning giving offset and count") {
   TempDir d;
+  // Valid UTF-8 (é) with damage: repaired, not re-decoded.
+  const auto r = read_ok(d.write("damaged.txt", "caf\xC3\xA9 au lait, cr\xE8me br\xFBl\xE9" "e\n"));
+  REQUIRE(r.documents.size() == 1);
+  CHECK(r.documents[0].body == "caf\xC3\xA9 au lait, cr\xEF\xBF\xBDme br\xEF\xBF\xBDl\xEF\xBF\xBD" "e\n");
+  REQUIRE(r.warnings.size() == 1);
+  CHECK(r.warnings[0] == "invalid UTF-8 at byte 17 (3 sequences replaced)");
+}
+
+TEST_CASE("text with no UTF-8 at all is decoded from the charset ICU detects") {
+  TempDir d;
   const auto r = read_ok(d.write("latin1.txt", "caf\xE9 au lait, cr\xE8me br\xFBl\xE9" "e\n"));
   REQUIRE(r.documents.size() == 1);
-  CHECK(r.documents[0].body == "caf\xEF\xBF\xBD au lait, cr\xEF\xBF\xBDme br\xEF\xBF\xBDl\xEF\xBF\xBD" "e\n");
+  CHECK(r.documents[0].body == "caf\xC3\xA9 au lait, cr\xC3\xA8me br\xC3\xBBl\xC3\xA9" "e\n");
   REQUIRE(r.warnings.size() == 1);
-  CHECK(r.warnings[0] == "invalid UTF-8 at byte 3 (4 sequences replaced)");
+  CHECK(r.warnings[0].rfind("not UTF-8: decoded as ISO-8859-1 (ICU detection, confidence ", 0) == 0);
+  // One or two stray bytes are treated as damage.
+  const auto one = read_ok(d.write("stray.txt", "plain text with one \xFF byte\n"));
+  REQUIRE(one.warnings.size() == 1);
+  CHECK(one.warnings[0] == "invalid UTF-8 at byte 20 (1 sequence replaced)");
 }
 
 TEST_CASE("a UTF-8 byte order mark is dropped and offsets still count it") {

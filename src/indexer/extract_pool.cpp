@@ -1,0 +1,52 @@
+#include "indexer/extract_pool.h"
+
+namespace lode::indexer {
+
+ExtractPool::ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead)
+    : jobs_(std::move(jobs)), options_(std::move(options)), ahead_(std::max<std::size_t>(ahead, 1)),
+      done_(jobs_.size()) {
+  const unsigned n = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(jobs_.size(), 1))));
+  for (unsigned i = 0; i < n; ++i) workers_.emplace_back([this](std::stop_token st) { work(st); });
+}
+
+ExtractPool::~ExtractPool() {
+  for (auto& w : workers_) w.request_stop();
+  cv_.notify_all();
+  workers_.clear();  // joins
+}
+
+void ExtractPool::work(std::stop_token stop) {
+  for (;;) {
+    std::size_t i = 0;
+    {
+      std::unique_lock lock(mu_);
+      if (!cv_.wait(lock, stop, [&] { return next_ < jobs_.size() && next_ < taken_ + ahead_; })) return;
+      i = next_++;
+    }
+    const ReadJob& job = jobs_[i];
+    ReadOutcome out;
+    if (!job.rename_hashes.empty()) {
+      auto hash = hash_file(job.path, options_);
+      if (hash.ok() && job.rename_hashes.count(*hash)) out.renamed_hash = *hash;
+    }
+    if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
+    {
+      std::lock_guard lock(mu_);
+      done_[i] = std::move(out);
+    }
+    cv_.notify_all();
+  }
+}
+
+ReadOutcome ExtractPool::take(std::size_t i) {
+  std::unique_lock lock(mu_);
+  cv_.wait(lock, [&] { return done_[i].has_value(); });
+  ReadOutcome out = std::move(*done_[i]);
+  done_[i].reset();
+  taken_ = i + 1;
+  lock.unlock();
+  cv_.notify_all();
+  return out;
+}
+
+}  // namespace lode::indexer

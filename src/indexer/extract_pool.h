@@ -1,0 +1,58 @@
+// Parallel extraction for index_paths() (private to src/indexer/): worker
+// threads read files ahead of the single writer thread, which takes the
+// results back in job order.
+#pragma once
+
+#include <condition_variable>
+#include <cstddef>
+#include <mutex>
+#include <optional>
+#include <set>
+#include <string>
+#include <thread>
+#include <vector>
+
+#include "lode/ingest.h"
+
+namespace lode::indexer {
+
+struct ReadJob {
+  std::string path;
+  // Content hashes of files that vanished with this file's size: when the
+  // file's hash is one of these it is a rename and is not extracted.
+  std::set<std::string> rename_hashes;
+};
+
+struct ReadOutcome {
+  std::string renamed_hash;            // set when the file is a rename (read is then empty)
+  std::optional<Result<ReadResult>> read;
+};
+
+class ExtractPool {
+ public:
+  // Starts `threads` workers (at least 1) over `jobs`; at most `ahead` results
+  // wait unclaimed at any time.
+  ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead);
+  ~ExtractPool();  // stops and joins the workers
+  ExtractPool(const ExtractPool&) = delete;
+  ExtractPool& operator=(const ExtractPool&) = delete;
+
+  // The outcome of job `i`, waiting for it if needed. REQUIRES: i ascending
+  // across calls, i < number of jobs.
+  ReadOutcome take(std::size_t i);
+
+ private:
+  void work(std::stop_token stop);
+
+  std::vector<ReadJob> jobs_;
+  ReadOptions options_;
+  std::size_t ahead_;
+  std::mutex mu_;
+  std::condition_variable_any cv_;
+  std::vector<std::optional<ReadOutcome>> done_;
+  std::size_t next_ = 0;   // next job to hand to a worker
+  std::size_t taken_ = 0;  // jobs the consumer has taken
+  std::vector<std::jthread> workers_;
+};
+
+}  // namespace lode::indexer
