@@ -18,7 +18,7 @@ struct SearchArgs {
   double k1 = 1.2, b = 0.75;
   std::string weighting = "lnc.ltc";
   double log_base = 10;
-  double title_weight = 1.0, body_weight = 1.0;
+  double title_weight = 0.5, body_weight = 1.0;  // SearchOptions' defaults (docs/evaluation.md)
   std::size_t top = 10, offset = 0;
   bool json = false, why = false, no_snippets = false;
   std::string batch, run_tag;
@@ -136,7 +136,7 @@ Runner add_search_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--weighting", a->weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
   app.add_option("--log-base", a->log_base, "base of the logs in TF-IDF weights (default 10)")
       ->check(CLI::Range(1.000001, 1e9));
-  app.add_option("--title-weight", a->title_weight, "weight of title matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--title-weight", a->title_weight, "weight of title matches (default 0.5)")->check(CLI::Range(0.0, 1e6));
   app.add_option("--body-weight", a->body_weight, "weight of body matches (default 1)")->check(CLI::Range(0.0, 1e6));
   app.add_option("--top", a->top, "number of hits (default 10; 1000 with --batch)");
   app.add_option("--offset", a->offset, "skip this many hits first (paging)");

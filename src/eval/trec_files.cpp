@@ -1,7 +1,10 @@
 #include <algorithm>
 #include <charconv>
+#include <cmath>
 #include <cstdio>
 #include <fstream>
+#include <nlohmann/json.hpp>
+#include <set>
 #include <sstream>
 
 #include "lode/eval.h"
@@ -74,13 +77,18 @@ Result<Qrels> read_qrels(const std::string& path) {
 
 Result<Run> parse_run(std::string_view text, std::string_view source) {
   Run run;
+  std::set<std::pair<std::string, std::string>> seen;
   Status s = for_each_line(text, [&](std::string_view line, std::size_t n) -> Status {
     auto f = fields_of(line);
     if (f.empty()) return Status();
     if (f.size() != 6) return Status::InvalidArgument(where(source, n) + "expected 'qid Q0 docid rank score tag'");
     double score = 0;
     auto r = std::from_chars(f[4].data(), f[4].data() + f[4].size(), score);
-    if (r.ec != std::errc()) return Status::InvalidArgument(where(source, n) + "score '" + std::string(f[4]) + "' is not a number");
+    if (r.ec != std::errc() || r.ptr != f[4].data() + f[4].size() || !std::isfinite(score))
+      return Status::InvalidArgument(where(source, n) + "score '" + std::string(f[4]) + "' is not a finite number");
+    if (!seen.emplace(std::string(f[0]), std::string(f[2])).second)
+      return Status::InvalidArgument(where(source, n) + "document '" + std::string(f[2]) +
+                                     "' is listed twice for query '" + std::string(f[0]) + "'");
     run[std::string(f[0])].push_back(RunEntry{std::string(f[2]), score});
     return Status();
   });
@@ -106,21 +114,63 @@ std::string format_run_line(std::string_view qid, std::string_view docid, std::s
          std::string(tag);
 }
 
-Result<std::vector<QueryLine>> read_queries(const std::string& path) {
-  auto text = slurp(path);
-  if (!text) return text.status();
+std::string format_run(const Run& run, std::string_view tag) {
+  std::string out;
+  for (auto& [qid, entries] : run)
+    for (std::size_t i = 0; i < entries.size(); ++i)
+      out += format_run_line(qid, entries[i].docid, i + 1, entries[i].score, tag) + "\n";
+  return out;
+}
+
+namespace {
+
+// One JSON Lines query: {"id": ..., "text": ...}; a numeric id is accepted as its decimal text.
+Result<QueryLine> json_query(std::string_view line, const std::string& at) {
+  auto j = nlohmann::json::parse(line, nullptr, false);
+  if (j.is_discarded() || !j.is_object()) return Status::InvalidArgument(at + "not a JSON object");
+  QueryLine q;
+  auto id = j.find("id");
+  if (id != j.end() && id->is_string()) q.id = id->get<std::string>();
+  else if (id != j.end() && id->is_number_integer()) q.id = std::to_string(id->get<long long>());
+  auto text = j.find("text");
+  if (text != j.end() && text->is_string()) q.text = text->get<std::string>();
+  if (q.id.empty() || text == j.end() || !text->is_string())
+    return Status::InvalidArgument(at + "expected string fields \"id\" and \"text\"");
+  return q;
+}
+
+}  // namespace
+
+Result<std::vector<QueryLine>> parse_queries(std::string_view text, std::string_view source) {
   std::vector<QueryLine> out;
-  Status s = for_each_line(*text, [&](std::string_view line, std::size_t n) -> Status {
+  std::set<std::string> ids;
+  Status s = for_each_line(text, [&](std::string_view line, std::size_t n) -> Status {
     if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
     if (line.empty() || line[0] == '#') return Status();
-    auto tab = line.find('\t');
-    if (tab == std::string_view::npos || tab == 0)
-      return Status::InvalidArgument(where(path, n) + "expected 'id<TAB>query text'");
-    out.push_back(QueryLine{std::string(line.substr(0, tab)), std::string(line.substr(tab + 1))});
+    QueryLine q;
+    if (line[0] == '{') {
+      auto j = json_query(line, where(source, n));
+      if (!j) return j.status();
+      q = std::move(j.value());
+    } else {
+      auto tab = line.find('\t');
+      if (tab == std::string_view::npos || tab == 0)
+        return Status::InvalidArgument(where(source, n) + "expected 'id<TAB>query text'");
+      q = QueryLine{std::string(line.substr(0, tab)), std::string(line.substr(tab + 1))};
+    }
+    if (!ids.insert(q.id).second)
+      return Status::InvalidArgument(where(source, n) + "query id '" + q.id + "' appears twice");
+    out.push_back(std::move(q));
     return Status();
   });
   if (!s.ok()) return s;
   return out;
+}
+
+Result<std::vector<QueryLine>> read_queries(const std::string& path) {
+  auto text = slurp(path);
+  if (!text) return text.status();
+  return parse_queries(*text, path);
 }
 
 }  // namespace lode

@@ -7,10 +7,19 @@
 
 #include "lode/ranking.h"
 #include "ranking/constraint.h"
+#include "ranking/feedback.h"
+#include "ranking/pages.h"
 #include "ranking/scorer.h"
 #include "ranking/snippet.h"
 
 namespace lode {
+namespace {
+struct Candidate {
+  double score;
+  DocId doc;
+  std::vector<std::uint32_t> tfs;
+};
+}  // namespace
 
 struct Searcher::Impl {
   IndexReader& reader;
@@ -20,8 +29,18 @@ struct Searcher::Impl {
     Query query;
     std::vector<rank::ScoringTerm> terms;
     std::vector<rank::ClauseMatcher> required, excluded;
+    std::optional<std::vector<DocId>> allowed;  // metadata filters (@kind: ...): live docs, ascending
   };
   Result<Plan> plan(std::string_view text, const SearchOptions& options);
+  // (Re)creates the plan's clause matchers; their cursors only move forward, so each pass needs new ones.
+  Status make_matchers(Plan& plan);
+  // The best `keep` live matches of the plan, best first; counts every match in *matched.
+  Result<std::vector<Candidate>> retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep,
+                                          std::uint64_t* matched);
+  // Pseudo-relevance feedback: a first pass over the plan, then RM3 rewrites its terms.
+  Status expand(Plan& plan, const SearchOptions& options);
+  // plan() followed by expand(): the plan a query is finally scored with.
+  Result<Plan> prepare(std::string_view text, const SearchOptions& options);
   Status fill_hit(Hit& hit, Plan& plan, rank::Scorer& scorer, const std::vector<std::uint32_t>& tfs,
                   const SearchOptions& options);
 };
@@ -34,14 +53,13 @@ Status check_options(const SearchOptions& o) {
   for (double w : o.field_weight)
     if (!(w >= 0) || w > 1e6) return Status::InvalidArgument("field weights must be between 0 and 1e6");
   if (!(o.smart.log_base > 1)) return Status::InvalidArgument("log base must be greater than 1");
+  if (o.feedback.documents > 0 && o.model != Model::kBm25)
+    return Status::InvalidArgument("feedback applies to the bm25 model only");
+  if (!(o.feedback.original_weight >= 0 && o.feedback.original_weight <= 1))
+    return Status::InvalidArgument("feedback original-query weight must be between 0 and 1");
   return Status();
 }
 
-struct Candidate {
-  double score;
-  DocId doc;
-  std::vector<std::uint32_t> tfs;
-};
 // Better(a, b): a ranks above b (higher score, then lower doc id). With it the
 // priority queue keeps the worst kept candidate on top, ready to be replaced.
 struct Better {
@@ -76,13 +94,25 @@ Result<Searcher::Impl::Plan> Searcher::Impl::plan(std::string_view text, const S
     if (info->has_value() && (*info)->df > 0) t.info = **info;
     p.terms.push_back(std::move(t));
   }
+  LODE_RETURN_IF_ERROR(make_matchers(p));
+  if (!p.query.filter.empty()) {
+    auto allowed = reader.filter(p.query.filter);
+    if (!allowed) return allowed.status();
+    p.allowed = std::move(allowed).value();
+  }
+  return p;
+}
+
+Status Searcher::Impl::make_matchers(Plan& p) {
+  p.required.clear();
+  p.excluded.clear();
   for (const Clause& c : p.query.clauses) {
     if (c.occur == Occur::kShould && !c.phrase) continue;
     auto m = rank::ClauseMatcher::create(reader, c);
     if (!m) return m.status();
     (c.occur == Occur::kMustNot ? p.excluded : p.required).push_back(std::move(m.value()));
   }
-  return p;
+  return Status();
 }
 
 Status Searcher::Impl::fill_hit(Hit& hit, Plan& plan, rank::Scorer& scorer,
@@ -103,7 +133,15 @@ Status Searcher::Impl::fill_hit(Hit& hit, Plan& plan, rank::Scorer& scorer,
     if (!body) return body.status();
     std::unordered_set<std::string> words;
     for (auto& t : plan.terms) words.insert(t.term);
-    hit.snippet = rank::make_snippet(*body, *analyzer, words);
+    auto pages = reader.pages(hit.doc);
+    if (!pages) return pages.status();
+    std::string_view text = *body;
+    if (!pages->empty()) {
+      const rank::PageChoice choice = rank::best_page(*body, *pages, *analyzer, words);
+      hit.page = choice.page;
+      text = choice.text;
+    }
+    hit.snippet = rank::make_snippet(text, *analyzer, words);
   }
   return Status();
 }
@@ -117,22 +155,13 @@ Result<std::unique_ptr<Searcher>> Searcher::create(IndexReader& reader) {
   return std::unique_ptr<Searcher>(new Searcher(std::make_unique<Impl>(Impl{reader, std::move(analyzer.value())})));
 }
 
-Result<SearchResults> Searcher::search(std::string_view text, const SearchOptions& options) {
-  auto& reader = impl_->reader;
-  auto scope = reader.begin();
-  if (!scope) return scope.status();
-  auto plan = impl_->plan(text, options);
-  if (!plan) return plan.status();
-  SearchResults results;
-  results.warnings = plan->query.warnings;
-  auto& terms = plan->terms;
-  rank::Scorer scorer(reader, options, terms);
-
+Result<std::vector<Candidate>> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep,
+                                                        std::uint64_t* matched) {
+  auto& terms = plan.terms;
   std::vector<std::unique_ptr<PostingCursor>> cursors(terms.size());
   for (std::size_t i = 0; i < terms.size(); ++i)
     if (terms[i].info) cursors[i] = reader.postings(*terms[i].info);
 
-  const std::size_t keep = options.offset + options.top;
   std::priority_queue<Candidate, std::vector<Candidate>, Better> heap;
   std::vector<std::uint32_t> tfs(terms.size());
   while (true) {
@@ -153,13 +182,14 @@ Result<SearchResults> Searcher::search(std::string_view text, const SearchOption
       }
     }
     if (!reader.live(doc)) continue;
+    if (plan.allowed && !std::binary_search(plan.allowed->begin(), plan.allowed->end(), doc)) continue;
     bool ok = true;
-    for (auto& m : plan->required) {
+    for (auto& m : plan.required) {
       auto r = m.contains(doc);
       if (!r) return r.status();
       if (!*r) { ok = false; break; }
     }
-    for (auto& m : plan->excluded) {
+    for (auto& m : plan.excluded) {
       if (!ok) break;
       auto r = m.contains(doc);
       if (!r) return r.status();
@@ -168,7 +198,7 @@ Result<SearchResults> Searcher::search(std::string_view text, const SearchOption
     if (!ok) continue;
     auto score = scorer.score(doc, tfs, nullptr);
     if (!score) return score.status();
-    ++results.matched;
+    ++*matched;
     if (keep == 0) continue;
     if (heap.size() < keep) {
       heap.push(Candidate{*score, doc, tfs});
@@ -186,11 +216,44 @@ Result<SearchResults> Searcher::search(std::string_view text, const SearchOption
     heap.pop();
   }
   std::reverse(ranked.begin(), ranked.end());
-  for (std::size_t i = options.offset; i < ranked.size(); ++i) {
+  return ranked;
+}
+
+Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {
+  if (options.feedback.documents == 0) return Status();
+  rank::Scorer first(reader, options, plan.terms);
+  std::uint64_t matched = 0;
+  auto top = retrieve(plan, first, options.feedback.documents, &matched);
+  if (!top) return top.status();
+  std::vector<rank::FeedbackDoc> docs;
+  for (auto& c : *top) docs.push_back(rank::FeedbackDoc{c.doc, c.score});
+  LODE_RETURN_IF_ERROR(rank::expand_rm3(reader, options, docs, plan.terms));
+  return make_matchers(plan);
+}
+
+Result<Searcher::Impl::Plan> Searcher::Impl::prepare(std::string_view text, const SearchOptions& options) {
+  auto p = plan(text, options);
+  if (!p) return p.status();
+  LODE_RETURN_IF_ERROR(expand(*p, options));
+  return p;
+}
+
+Result<SearchResults> Searcher::search(std::string_view text, const SearchOptions& options) {
+  auto& reader = impl_->reader;
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  auto plan = impl_->prepare(text, options);
+  if (!plan) return plan.status();
+  SearchResults results;
+  results.warnings = plan->query.warnings;
+  rank::Scorer scorer(reader, options, plan->terms);
+  auto ranked = impl_->retrieve(*plan, scorer, options.offset + options.top, &results.matched);
+  if (!ranked) return ranked.status();
+  for (std::size_t i = options.offset; i < ranked->size(); ++i) {
     Hit hit;
-    hit.doc = ranked[i].doc;
-    hit.score = ranked[i].score;
-    LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, ranked[i].tfs, options));
+    hit.doc = (*ranked)[i].doc;
+    hit.score = (*ranked)[i].score;
+    LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, (*ranked)[i].tfs, options));
     results.hits.push_back(std::move(hit));
   }
   return results;
@@ -200,7 +263,7 @@ Result<Hit> Searcher::explain(std::string_view text, DocId doc, const SearchOpti
   auto& reader = impl_->reader;
   auto scope = reader.begin();
   if (!scope) return scope.status();
-  auto plan = impl_->plan(text, options);
+  auto plan = impl_->prepare(text, options);
   if (!plan) return plan.status();
   rank::Scorer scorer(reader, options, plan->terms);
   std::vector<std::uint32_t> tfs(plan->terms.size());

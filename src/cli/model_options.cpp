@@ -1,0 +1,61 @@
+#include "cli/model_options.h"
+
+#include <cstdio>
+
+namespace lode::cli {
+
+void add_model_options(CLI::App& app, ModelArgs& a) {
+  app.add_option("--model", a.model, "bm25 (default) or tfidf");
+  app.add_option("--k1", a.k1, "BM25 tf saturation (default 1.2)")->check(CLI::Range(0.0, 1000.0));
+  app.add_option("--b", a.b, "BM25 length normalisation (default 0.75)")->check(CLI::Range(0.0, 1.0));
+  app.add_option("--weighting", a.weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
+  app.add_option("--log-base", a.log_base, "base of the logs in TF-IDF weights (default 10)")
+      ->check(CLI::Range(1.000001, 1e9));
+  app.add_option("--title-weight", a.title_weight, "weight of title matches (default 0.5)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--body-weight", a.body_weight, "weight of body matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--feedback-docs", a.feedback_docs,
+                 "pseudo-relevance feedback (RM3) from this many top documents (default 0 = off)")
+      ->check(CLI::Range(0, 1000));
+  app.add_option("--feedback-terms", a.feedback_terms, "expansion words feedback adds (default 10)")
+      ->check(CLI::Range(1, 1000));
+  app.add_option("--feedback-weight", a.feedback_weight, "weight of the original query in the feedback mix (default 0.5)")
+      ->check(CLI::Range(0.0, 1.0));
+}
+
+Result<SearchOptions> to_search_options(const ModelArgs& a) {
+  SearchOptions o;
+  auto model = parse_model(a.model);
+  if (!model) return Status::InvalidArgument("--model must be bm25 or tfidf, not '" + a.model + "'");
+  o.model = *model;
+  auto w = SmartWeighting::parse(a.weighting);
+  if (!w) return w.status();
+  if (o.model == Model::kBm25 && w->notation() != o.smart.notation())
+    return Status::InvalidArgument("--weighting applies to --model tfidf");
+  if (o.model == Model::kTfIdf && (a.k1 != o.bm25.k1 || a.b != o.bm25.b))
+    return Status::InvalidArgument("--k1 and --b apply to --model bm25");
+  o.bm25 = {a.k1, a.b};
+  o.smart = *w;
+  o.smart.log_base = a.log_base;
+  o.field_weight = {a.title_weight, a.body_weight};
+  o.feedback = {a.feedback_docs, a.feedback_terms, a.feedback_weight};
+  return o;
+}
+
+std::string describe(const SearchOptions& o) {
+  char buf[256];
+  if (o.model == Model::kBm25)
+    std::snprintf(buf, sizeof buf, "bm25 k1=%g b=%g", o.bm25.k1, o.bm25.b);
+  else
+    std::snprintf(buf, sizeof buf, "tfidf %s log=%g", o.smart.notation().c_str(), o.smart.log_base);
+  std::string s = buf;
+  std::snprintf(buf, sizeof buf, " title=%g body=%g", o.field_weight[0], o.field_weight[1]);
+  s += buf;
+  if (o.feedback.documents > 0) {
+    std::snprintf(buf, sizeof buf, " feedback=%zu docs/%zu terms/%g", o.feedback.documents, o.feedback.terms,
+                  o.feedback.original_weight);
+    s += buf;
+  }
+  return s;
+}
+
+}  // namespace lode::cli
