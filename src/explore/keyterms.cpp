@@ -1,0 +1,124 @@
+// Key terms: heaviest centroid entries, merged over fields, with surface forms
+// counted in the stored text (method in lode/keyterms.h).
+#include <algorithm>
+#include <map>
+#include <unordered_map>
+
+#include "explore/terms.h"
+#include "lode/keyterms.h"
+
+namespace lode {
+
+Status KeyTermOptions::check() const {
+  LODE_RETURN_IF_ERROR(vectors.check());
+  if (top == 0) return Status::InvalidArgument("top must be at least 1");
+  if (hits == 0) return Status::InvalidArgument("hits must be at least 1");
+  return Status();
+}
+
+namespace {
+
+using SurfaceCounts = std::unordered_map<std::string, std::map<std::string, std::uint32_t>>;
+
+// Counts, per wanted stem, the folded words of `text` that analyze to it.
+void count_surfaces(Analyzer& analyzer, const std::string& text, SurfaceCounts& counts) {
+  auto words = analyzer.words(text);
+  auto tokens = analyzer.analyze(text).tokens;
+  std::size_t w = 0;
+  for (auto& t : tokens) {
+    auto it = counts.find(t.term);
+    if (it == counts.end()) continue;
+    while (w < words.size() && words[w].begin < t.begin) ++w;
+    // Both come from one segmentation, so a token starts where a word starts;
+    // the stem itself stands in if that ever fails.
+    bool same = w < words.size() && words[w].begin == t.begin;
+    ++it->second[same ? words[w].term : t.term];
+  }
+}
+
+std::string most_frequent(const std::map<std::string, std::uint32_t>& forms, std::uint32_t& total) {
+  const std::string* best = nullptr;
+  std::uint32_t best_n = 0;
+  total = 0;
+  for (auto& [word, n] : forms) {
+    total += n;
+    if (!best || n > best_n || (n == best_n && word.size() < best->size())) best = &word, best_n = n;
+  }
+  return best ? *best : std::string();
+}
+
+// Key terms of `docs` inside the caller's read scope.
+Result<KeyTermResults> key_terms(IndexReader& reader, const std::vector<DocId>& docs, const KeyTermOptions& o) {
+  VectorSource src(reader, o.vectors);
+  std::unordered_map<TermId, double> sum;
+  KeyTermResults out;
+  for (DocId d : docs) {
+    auto v = src.document(d);
+    if (!v) {
+      if (v.status().code() == Code::kNotFound) continue;  // removed since the search
+      return v.status();
+    }
+    out.documents.push_back(d);
+    for (auto& e : *v) sum[e.term] += e.weight;
+  }
+  if (out.documents.empty()) return Status::NotFound("no live document to take key terms from");
+  std::vector<TermWeight> centroid;
+  const double count = static_cast<double>(out.documents.size());
+  for (auto& [id, w] : sum) centroid.push_back({id, w / count});
+  auto named = explore::merge_fields(src, centroid, o.top);
+  if (!named) return named.status();
+  std::vector<KeyTerm> ranked;
+  for (auto& n : *named) ranked.push_back(KeyTerm{n.term, "", n.weight, 0, n.df});
+
+  auto analyzer = Analyzer::create(reader.settings().analyzer);
+  if (!analyzer) return analyzer.status();
+  SurfaceCounts counts;
+  for (auto& k : ranked) counts[k.term];
+  for (DocId d : out.documents)
+    for (Field f : kAllFields) {
+      if (o.vectors.field_weight[static_cast<std::size_t>(f)] == 0) continue;
+      auto text = reader.stored_text(d, f);
+      if (!text) return text.status();
+      count_surfaces(**analyzer, *text, counts);
+    }
+  for (auto& k : ranked) {
+    k.surface = most_frequent(counts[k.term], k.occurrences);
+    if (k.surface.empty()) k.surface = k.term;
+  }
+  out.terms = std::move(ranked);
+  return out;
+}
+
+}  // namespace
+
+Result<KeyTermResults> key_terms_of_document(IndexReader& reader, DocId doc, const KeyTermOptions& options) {
+  LODE_RETURN_IF_ERROR(options.check());
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  if (!reader.live(doc)) return Status::NotFound("document " + std::to_string(doc) + " is not in the index");
+  return key_terms(reader, {doc}, options);
+}
+
+Result<KeyTermResults> key_terms_of_query(IndexReader& reader, std::string_view query, const SearchOptions& search,
+                                          const KeyTermOptions& options) {
+  LODE_RETURN_IF_ERROR(options.check());
+  auto searcher = Searcher::create(reader);
+  if (!searcher) return searcher.status();
+  SearchOptions so = search;
+  so.top = options.hits;
+  so.offset = 0;
+  so.breakdown = false;
+  so.snippets = false;
+  auto res = (*searcher)->search(query, so);
+  if (!res) return res.status();
+  if (res->hits.empty()) return Status::NotFound("the query '" + std::string(query) + "' matches no document");
+  std::vector<DocId> docs;
+  for (auto& h : res->hits) docs.push_back(h.doc);
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  auto out = key_terms(reader, docs, options);
+  if (out) out->warnings = res->warnings;
+  return out;
+}
+
+}  // namespace lode
