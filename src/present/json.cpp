@@ -2,6 +2,14 @@
 
 namespace lode {
 
+namespace {
+nlohmann::json marks_json(const std::vector<std::pair<std::uint32_t, std::uint32_t>>& marks) {
+  nlohmann::json out = nlohmann::json::array();
+  for (auto& [b, e] : marks) out.push_back({b, e});
+  return out;
+}
+}  // namespace
+
 nlohmann::json model_json(const SearchOptions& o) {
   nlohmann::json m{{"name", model_name(o.model)}};
   if (o.model == Model::kBm25) {
@@ -36,9 +44,7 @@ nlohmann::json hit_json(const Hit& hit, std::size_t rank, bool with_breakdown) {
                        {"contribution", c.contribution}});
     h["breakdown"] = parts;
   }
-  nlohmann::json marks = nlohmann::json::array();
-  for (auto& [b, e] : hit.snippet.marks) marks.push_back({b, e});
-  h["snippet"] = {{"text", hit.snippet.text}, {"marks", marks}};
+  h["snippet"] = {{"text", hit.snippet.text}, {"marks", marks_json(hit.snippet.marks)}};
   return h;
 }
 
@@ -62,6 +68,45 @@ nlohmann::json stats_json(const CollectionStats& s, const IndexSettings& setting
           {"average_length", {{"title", s.average_length(Field::kTitle)}, {"body", s.average_length(Field::kBody)}}},
           {"analyzer", {{"language", settings.analyzer.language}, {"stopwords", settings.analyzer.stopwords}}},
           {"format_version", kIndexFormatVersion}};
+}
+
+nlohmann::json explain_json(std::string_view query, const Hit& hit, const SearchOptions& o) {
+  nlohmann::json h = hit_json(hit, 0, true);
+  h.erase("rank");
+  return {{"schema", kExplainSchema}, {"query", query},  {"model", model_json(o)},
+          {"matches", !hit.breakdown.empty()}, {"hit", h}};
+}
+
+std::unordered_set<std::string> query_terms(const Query& query) {
+  std::unordered_set<std::string> terms;
+  for (const Clause& c : query.clauses)
+    if (c.occur != Occur::kMustNot)
+      for (const QueryWord& w : c.words) terms.insert(w.term);
+  return terms;
+}
+
+std::vector<std::pair<std::uint32_t, std::uint32_t>> mark_terms(std::string_view text, Analyzer& analyzer,
+                                                                const std::unordered_set<std::string>& terms) {
+  std::vector<std::pair<std::uint32_t, std::uint32_t>> marks;
+  if (terms.empty()) return marks;
+  for (const Token& t : analyzer.analyze(text).tokens)
+    if (terms.count(t.term)) marks.emplace_back(t.begin, t.end);
+  return marks;
+}
+
+nlohmann::json document_json(const DocumentInfo& info, std::string_view query, const MarkedText& title,
+                             const MarkedText& body) {
+  auto field = [](const MarkedText& m) {
+    return nlohmann::json{{"text", m.text}, {"marks", marks_json(m.marks)}, {"truncated", m.truncated}};
+  };
+  return {{"schema", kDocumentSchema},
+          {"doc", info.external_id},
+          {"title", info.title},
+          {"kind", info.kind},
+          {"path", info.path},
+          {"lengths", {{"title", info.length[0]}, {"body", info.length[1]}}},
+          {"query", query},
+          {"fields", {{"title", field(title)}, {"body", field(body)}}}};
 }
 
 }  // namespace lode

@@ -1,0 +1,113 @@
+// The page in headless Chromium (Debian's chromium; the test starts the
+// server and the browser itself): type a query with the keyboard, see the
+// hits the API returns, open a breakdown, switch the model and see the order
+// change, page, open a document, load a shared URL. Screenshots of a desktop
+// and a phone viewport are left in the test's working folder for review.
+#include "browser.h"
+#include "server_util.h"
+
+using namespace lode;
+using namespace lode::test;
+
+namespace {
+
+// The documents shown, in order.
+const char* kShownDocs = "[...document.querySelectorAll('.hit')].map(h => h.dataset.doc)";
+const char* kReady = "document.body.dataset.ready === '1'";
+
+std::vector<std::string> api_docs(httplib::Client& c, const httplib::Params& params) {
+  auto j = body_json(get(c, "/api/v1/search", params));
+  std::vector<std::string> docs;
+  for (auto& h : j["hits"]) docs.push_back(h["doc"]);
+  return docs;
+}
+
+}  // namespace
+
+TEST_CASE("Browser: search, breakdown, model switch, paging and the reader in headless Chromium") {
+  TempDir dir;
+  std::string index = dir.str("sample.sqlite");
+  index_sample(index);
+  LiveServer server(index);
+  auto c = server.client();
+  const std::string query = "storm damage";
+  auto bm25 = api_docs(c, {{"q", query}, {"top", "10"}});
+  auto tfidf = api_docs(c, {{"q", query}, {"top", "10"}, {"model", "tfidf"}});
+  REQUIRE(bm25.size() == 10);
+  REQUIRE(bm25 != tfidf);  // the query must tell the models apart for the check below to mean anything
+
+  Browser browser(dir.str("profile"));
+  std::string tab = browser.open(server.url() + "/", 1280, 900, false);
+
+  // Type a query: "/" focuses the box, then real key events and Enter.
+  browser.press(tab, "/");
+  CHECK(browser.eval(tab, "document.activeElement.id") == "q");
+  CHECK(browser.eval(tab, "document.getElementById('q').value") == "");  // the "/" itself is not typed
+  browser.type(tab, query);
+  browser.press(tab, "Enter");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.querySelectorAll('.hit').length > 0"));
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == bm25);
+  CHECK(browser.eval(tab, "new URLSearchParams(location.search).get('q')") == query);
+  // Each hit's term bar covers its whole score (shares sum to 100%).
+  auto widths = browser.eval(tab, "[...document.querySelectorAll('.hit')].map(h => [...h.querySelectorAll("
+                                  "'.shares span')].reduce((s, e) => s + parseFloat(e.style.width), 0))");
+  for (auto& w : widths) CHECK(std::abs(w.get<double>() - 100.0) < 0.1);
+
+  // Open the breakdown of the first hit with the keyboard (down from the box, then w).
+  CHECK(browser.eval(tab, "document.querySelectorAll('table.breakdown').length") == 0);
+  browser.press(tab, "ArrowDown");
+  CHECK(browser.eval(tab, "document.activeElement.dataset.doc") == bm25[0]);
+  browser.press(tab, "w");
+  REQUIRE(browser.wait_for(tab, "document.querySelector('.hit table.breakdown') !== null"));
+  auto first = body_json(get(c, "/api/v1/search", {{"q", query}, {"top", "1"}}))["hits"][0];
+  CHECK(browser.eval(tab, "document.querySelectorAll('.hit:first-child table.breakdown tbody tr').length") ==
+        first["breakdown"].size());
+  double shown_score =
+      browser.eval(tab, "parseFloat(document.querySelector('.hit:first-child tfoot td:nth-child(2)').textContent)");
+  CHECK(std::abs(shown_score - first["score"].get<double>()) < 5e-5);  // printed with 4 decimals
+  browser.screenshot(tab, "server-page-desktop.png");
+
+  // Switch the model: the order changes to the TF-IDF ranking.
+  browser.eval(tab, "document.querySelector('input[name=model][value=tfidf]').click()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.body.dataset.model === 'tfidf'"));
+  auto shown = browser.eval(tab, kShownDocs).get<std::vector<std::string>>();
+  CHECK(shown == tfidf);
+  CHECK(shown != bm25);
+  CHECK(browser.eval(tab, "new URLSearchParams(location.search).get('model')") == "tfidf");
+  // Back to BM25 with the keyboard ("m"), then k1 re-ranks live.
+  browser.press(tab, "m");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.body.dataset.model === 'bm25'"));
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == bm25);
+  browser.eval(tab, "(() => { const k = document.getElementById('k1'); k.value = '0'; "
+                    "k.dispatchEvent(new Event('input')); })()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && new URLSearchParams(location.search).get('k1') === '0'"));
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == api_docs(c, {{"q", query}, {"k1", "0"}}));
+
+  // Paging: the next page starts at rank 11.
+  browser.eval(tab, "document.getElementById('next').click()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.querySelector('.hit .rank').textContent === '11'"));
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() ==
+        api_docs(c, {{"q", query}, {"k1", "0"}, {"offset", "10"}}));
+
+  // The reader shows the stored text with the query's words marked; Esc closes it.
+  browser.press(tab, "j");
+  browser.press(tab, "o");
+  REQUIRE(browser.wait_for(tab, "!document.getElementById('reader').hidden && "
+                                "document.querySelectorAll('#reader-text mark').length > 0"));
+  auto marked = browser.eval(tab, "[...document.querySelectorAll('#reader-text mark')].map(m => m.textContent."
+                                  "toLowerCase())");
+  for (auto& m : marked) {
+    std::string w = m;
+    CHECK((w.rfind("storm", 0) == 0 || w.rfind("damag", 0) == 0));
+  }
+  browser.press(tab, "Escape");
+  CHECK(browser.eval(tab, "document.getElementById('reader').hidden") == true);
+
+  // A shared URL shows the same results without typing, on a phone-sized screen.
+  std::string phone = browser.open(server.url() + "/?q=storm+damage&model=tfidf", 390, 844, true);
+  REQUIRE(browser.wait_for(phone, std::string(kReady) + " && document.querySelectorAll('.hit').length > 0"));
+  CHECK(browser.eval(phone, kShownDocs).get<std::vector<std::string>>() == tfidf);
+  // Nothing spills sideways on the phone.
+  CHECK(browser.eval(phone, "document.documentElement.scrollWidth <= window.innerWidth") == true);
+  browser.screenshot(phone, "server-page-phone.png");
+}
