@@ -9,13 +9,14 @@
 //   tfidf-rank    lnc.ltc, ranking only
 // Baseline beside them: lode::parse_query alone (syntax + analysis, no index).
 // Each configuration runs the whole set once as warm-up (reported apart,
-// excluded from the figures), then --repeat more times; every query of every
+// excluded from the figures), then --repeat more times (fewer once --budget-s
+// is spent; at least one); every query of every
 // timed pass is one latency sample: mean, p50, p90, p99 (nearest rank), max,
 // in ms, plus the mean thread CPU time per query (steadier than wall time on
 // a busy machine). A table on stdout, then one JSON line (schema lode.bench_query/1).
 //
 //   bench_query --index FILE [--queries 200] [--repeat 5] [--seed 42]
-//               [--query-seed 7] [--words-from-index] [--json-out FILE]
+//               [--query-seed 7] [--budget-s S] [--words-from-index] [--json-out FILE]
 #include <CLI/CLI.hpp>
 #include <nlohmann/json.hpp>
 
@@ -38,6 +39,7 @@ struct Args {
   std::string index, label, json_out, dump_queries;
   std::size_t queries = 200, vocab = 50'000;
   int repeat = 5;
+  double budget_s = 0;
   std::uint64_t seed = 42, query_seed = 7;
   bool words_from_index = false;
 };
@@ -51,14 +53,20 @@ json summary_json(const Summary& s) {
   return {{"n", s.n}, {"mean_ms", s.mean}, {"p50_ms", s.p50}, {"p90_ms", s.p90}, {"p99_ms", s.p99}, {"max_ms", s.max}};
 }
 
-// Times `run(query)` over the set: one warm-up pass, then `repeat` passes.
+// Times `run(query)` over the set: one warm-up pass, then `repeat` passes,
+// fewer if the passes so far took over `budget_s` seconds (0 = no budget;
+// one timed pass always runs).
 template <typename Run>
-json measure(const std::vector<BenchQuery>& set, int repeat, Run&& run) {
+json measure(const std::vector<BenchQuery>& set, int repeat, double budget_s, Run&& run) {
   std::vector<double> all, warm, cpu;
   std::map<std::string, std::vector<double>> by_kind;
   double matched = 0;
   std::size_t errors = 0;
-  for (int pass = 0; pass <= repeat; ++pass)
+  const double start = now_seconds();
+  int passes = 0;
+  for (int pass = 0; pass <= repeat; ++pass) {
+    if (pass > 1 && budget_s > 0 && now_seconds() - start > budget_s) break;
+    passes = pass;
     for (const BenchQuery& q : set) {
       const double t0 = now_seconds(), c0 = thread_cpu_seconds();
       const long long m = run(q.text);  // < 0: error
@@ -73,6 +81,7 @@ json measure(const std::vector<BenchQuery>& set, int repeat, Run&& run) {
       cpu.push_back(cpu_ms);
       by_kind[q.kind].push_back(ms);
     }
+  }
   json kinds = json::object();
   for (auto& [k, v] : by_kind) kinds[k] = summary_json(summarize(v));
   return {{"all", summary_json(summarize(all))},
@@ -80,6 +89,7 @@ json measure(const std::vector<BenchQuery>& set, int repeat, Run&& run) {
           {"warmup_pass", summary_json(summarize(warm))},
           {"by_kind", kinds},
           {"mean_matched", set.empty() ? 0 : matched / static_cast<double>(set.size())},
+          {"timed_passes", passes},
           {"errors", errors}};
 }
 
@@ -112,8 +122,12 @@ int run(const Args& a) {
   }
 
   json configs = json::array();
-  auto add = [&](const char* name, const json& m) { configs.push_back({{"config", name}, {"latency", m}}); };
-  add("parse-only", measure(*set, a.repeat, [&](const std::string& q) -> long long {
+  auto add = [&](const char* name, const json& m) {
+    configs.push_back({{"config", name}, {"latency", m}});
+    std::fprintf(stderr, "bench_query: %s: %zu samples, mean %.4f ms\n", name, m["all"]["n"].get<std::size_t>(),
+                 m["all"]["mean_ms"].get<double>());
+  };
+  add("parse-only", measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
         auto parsed = parse_query(q, **analyzer);
         return parsed ? static_cast<long long>(parsed->clauses.size()) : -1;
       }));
@@ -130,13 +144,13 @@ int run(const Args& a) {
     o.model = c.model;
     o.smart = lnc_ltc.value();
     o.breakdown = o.snippets = c.full;
-    add(c.name, measure(*set, a.repeat, [&](const std::string& q) -> long long {
+    add(c.name, measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
           auto r = (*searcher)->search(q, o);
           return r ? static_cast<long long>(r->matched) : -1;
         }));
   }
 
-  std::printf("\nlode bench_query%s%s — %s: %llu documents, %llu terms; %zu queries x %d timed passes\n",
+  std::printf("\nlode bench_query%s%s — %s: %llu documents, %llu terms; %zu queries x up to %d timed passes\n",
               a.label.empty() ? "" : " ", a.label.c_str(), a.index.c_str(),
               static_cast<unsigned long long>(stats.documents), static_cast<unsigned long long>(stats.terms),
               set->size(), a.repeat);
@@ -178,6 +192,7 @@ int main(int argc, char** argv) {
   app.add_option("--repeat", a.repeat, "timed passes over the set after the warm-up (default 5)")->check(CLI::Range(1, 1000));
   app.add_option("--seed", a.seed, "vocabulary seed: the corpus's gen_corpus --seed (default 42)");
   app.add_option("--vocab", a.vocab, "vocabulary size: the corpus's gen_corpus --vocab (default 50000)");
+  app.add_option("--budget-s", a.budget_s, "stop adding timed passes to a configuration after this many seconds (default 0: none)");
   app.add_option("--query-seed", a.query_seed, "query set seed (default 7)");
   app.add_flag("--words-from-index", a.words_from_index, "draw words from stored documents, not the synthetic vocabulary");
   app.add_option("--dump-queries", a.dump_queries, "write the query set here (kind TAB query per line)");

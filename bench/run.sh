@@ -13,15 +13,17 @@
 #         peak RSS can be compared across corpus sizes.
 # Quick mode (--quick): 50 MB corpus, batches 16,64 (so the batch flushes
 # mid-run), no (iii), 2 query passes: a smoke check in a minute or two.
+# Query timing stops adding passes to a configuration after --query-budget
+# seconds (default 600): TF-IDF on the 1.1 GB index takes about a second a query.
 #
 # Usage: bench/run.sh [--quick] [--scratch DIR] [--mb N] [--batch-mb LIST]
-#                     [--seed N] [--repeat N] [--build DIR] [--no-build]
+#                     [--seed N] [--repeat N] [--query-budget S] [--build DIR] [--no-build]
 set -euo pipefail
 
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
 SCRATCH=${LODE_BENCH_SCRATCH:-/tmp/lode-bench}
 BUILD=$ROOT/build-bench
-MODE=full MB= BATCHES= SEED=42 REPEAT= NO_BUILD=0
+MODE=full MB= BATCHES= SEED=42 REPEAT= BUDGET=600 NO_BUILD=0
 
 die() { echo "run.sh: $*" >&2; exit 2; }
 while [[ $# -gt 0 ]]; do
@@ -32,6 +34,7 @@ while [[ $# -gt 0 ]]; do
     --batch-mb) BATCHES=${2:?--batch-mb needs a list like 64,256}; shift ;;
     --seed) SEED=${2:?--seed needs a number}; shift ;;
     --repeat) REPEAT=${2:?--repeat needs a number}; shift ;;
+    --query-budget) BUDGET=${2:?--query-budget needs seconds}; shift ;;
     --build) BUILD=${2:?--build needs a folder}; shift ;;
     --no-build) NO_BUILD=1 ;;
     -h|--help) sed -n '2,20p' "$0" | sed 's/^# \{0,1\}//'; exit 0 ;;
@@ -86,12 +89,12 @@ bench() {
   sed '$d' "$OUT/index-$label.txt"
   "$BUILD/lode" --index "$SCRATCH/$label.sqlite" stats --json > "$OUT/stats-$label.json"
   echo "run.sh: bench_query $label" >&2
-  "$BIN/bench_query" --index "$SCRATCH/$label.sqlite" --repeat "$REPEAT" --label "$label" --seed "$SEED" "$@" \
+  "$BIN/bench_query" --index "$SCRATCH/$label.sqlite" --repeat "$REPEAT" --budget-s "$BUDGET" --label "$label" --seed "$SEED" "$@" \
     --dump-queries "$OUT/queries-$label.tsv" --json-out "$OUT/query-$label.json" > "$OUT/query-$label.txt"
   sed '$d' "$OUT/query-$label.txt"
 }
 
-bench sample "$ROOT/sample_corpus" 256 --words-from-index
+bench sample "$ROOT/sample_corpus/archive" 256 --words-from-index
 if [[ $MODE == full ]]; then
   small=$(( (MB + 9) / 10 ))
   bench "gen-${small}mb" "$(corpus "$small")" "$BATCHES"

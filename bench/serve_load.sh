@@ -24,7 +24,7 @@ command -v wrk >/dev/null || { echo "serve_load: wrk is not installed (apt-get i
 out="bench/out/$(date +%Y%m%d-%H%M%S)-serve"
 mkdir -p "$out"
 index="${INDEX:-$out/sample.sqlite}"
-if [ -z "${INDEX:-}" ]; then "$lode" --index "$index" index -q sample_corpus; fi
+if [ -z "${INDEX:-}" ]; then "$lode" --index "$index" index -q sample_corpus/archive; fi
 
 # wrk script: rotate through the query file, URL-encoded.
 lua="$out/queries.lua"

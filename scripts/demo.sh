@@ -5,5 +5,5 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 cmake -S . -B build -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
 cmake --build build -j"${JOBS:-2}" --target lode
-./build/lode --index build/sample.sqlite index sample_corpus
+./build/lode --index build/sample.sqlite index sample_corpus/archive
 ./build/lode --index build/sample.sqlite search --why --top 3 "${1:-storm damage at the jetty}"

@@ -9,8 +9,14 @@ packages=(
   # libraries
   libsqlite3-dev libcpp-httplib-dev nlohmann-json3-dev libstemmer-dev libicu-dev
   libcli11-dev libzstd-dev libxxhash-dev
+  # document formats: PDF, HTML, zip containers (DOCX/ODT/EPUB), XML, mail, gzip
+  libpoppler-cpp-dev libgumbo-dev libzip-dev libpugixml-dev libgmime-3.0-dev zlib1g-dev
+  # tests: encrypted PDFs for the hostile-file set
+  qpdf
   # tests: doctest, and outside references the tests compare against
   doctest-dev python3 python3-sklearn python3-scipy snowball-data
+  # tests: the web page in headless Chromium; bench: HTTP load generator
+  chromium wrk
 )
 
 sudo=""

@@ -20,10 +20,28 @@ int main(int argc, char** argv) {
   std::vector<std::pair<CLI::App*, lode::cli::Runner>> runners;
   auto* index = app.add_subcommand("index", "add or update folders and files in the index");
   runners.emplace_back(index, lode::cli::add_index_command(*index, index_flag));
+  auto* problems = app.add_subcommand("problems", "files the index could not read, recorded by earlier runs");
+  runners.emplace_back(problems, lode::cli::add_problems_command(*problems, index_flag));
+  auto* watch = app.add_subcommand("watch", "index, then keep the index current as files change (Ctrl-C stops)");
+  runners.emplace_back(watch, lode::cli::add_watch_command(*watch, index_flag));
   auto* search = app.add_subcommand("search", "ranked search, one query or a batch");
   runners.emplace_back(search, lode::cli::add_search_command(*search, index_flag));
   auto* stats = app.add_subcommand("stats", "collection statistics and analyzer settings");
   runners.emplace_back(stats, lode::cli::add_stats_command(*stats, index_flag));
+  auto* eval = app.add_subcommand("eval", "judged queries: metrics, comparisons with significance, sweeps");
+  runners.emplace_back(eval, lode::cli::add_eval_command(*eval, index_flag));
+  auto* serve = app.add_subcommand("serve", "HTTP JSON API and browser page (read-only; loopback by default)");
+  runners.emplace_back(serve, lode::cli::add_serve_command(*serve, index_flag));
+  auto* like = app.add_subcommand("like", "documents most similar to a document or a passage");
+  runners.emplace_back(like, lode::cli::add_like_command(*like, index_flag));
+  auto* keyterms = app.add_subcommand("keyterms", "the heaviest terms of a document or of a search's hits");
+  runners.emplace_back(keyterms, lode::cli::add_keyterms_command(*keyterms, index_flag));
+  auto* twins = app.add_subcommand("twins", "groups of near-duplicate documents");
+  runners.emplace_back(twins, lode::cli::add_twins_command(*twins, index_flag));
+  auto* themes = app.add_subcommand("themes", "topic groups of the archive (spherical k-means)");
+  runners.emplace_back(themes, lode::cli::add_themes_command(*themes, index_flag));
+  auto* matrix = app.add_subcommand("matrix", "export the TF-IDF document-term matrix (Matrix Market)");
+  runners.emplace_back(matrix, lode::cli::add_matrix_command(*matrix, index_flag));
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -10,7 +10,7 @@ using namespace lode::test;
 
 namespace {
 const std::string kLode = LODE_BINARY;
-const std::string kCorpus = LODE_SOURCE_DIR "/sample_corpus";
+const std::string kCorpus = LODE_SOURCE_DIR "/sample_corpus/archive";
 }  // namespace
 
 TEST_CASE("CLI: index the sample corpus, search, explain, batch, stats") {

@@ -13,7 +13,7 @@
 namespace lode::test {
 
 inline const std::string kLode = LODE_BINARY;
-inline const std::string kSampleCorpus = LODE_SOURCE_DIR "/sample_corpus";
+inline const std::string kSampleCorpus = LODE_SOURCE_DIR "/sample_corpus/archive";
 
 // Indexes the sample corpus into `index` with the lode binary.
 inline void index_sample(const std::string& index) {
