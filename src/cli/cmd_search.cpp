@@ -1,10 +1,10 @@
 // `lode search`: one query (text or --json) or a batch file (TREC run out).
-#include <cmath>
 #include <cstdio>
 #include <iostream>
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/model_options.h"
 #include "lode/eval.h"
 #include "lode/present.h"
 #include "lode/ranking.h"
@@ -14,34 +14,18 @@ namespace {
 
 struct SearchArgs {
   std::string query;
-  std::string model = "bm25";
-  double k1 = 1.2, b = 0.75;
-  std::string weighting = "lnc.ltc";
-  double log_base = 10;
-  double title_weight = 0.5, body_weight = 1.0;  // SearchOptions' defaults (docs/evaluation.md)
+  ModelArgs model;
   std::size_t top = 10, offset = 0;
   bool json = false, why = false, no_snippets = false;
   std::string batch, run_tag;
 };
 
-Result<SearchOptions> to_options(const SearchArgs& a, CLI::App& app) {
-  SearchOptions o;
-  auto model = parse_model(a.model);
-  if (!model) return Status::InvalidArgument("--model must be bm25 or tfidf, not '" + a.model + "'");
-  o.model = *model;
-  o.bm25 = {a.k1, a.b};
-  auto w = SmartWeighting::parse(a.weighting);
-  if (!w) return w.status();
-  o.smart = *w;
-  o.smart.log_base = a.log_base;
-  o.field_weight = {a.title_weight, a.body_weight};
-  o.top = a.top;
-  o.offset = a.offset;
-  o.snippets = !a.no_snippets;
-  if (o.model == Model::kBm25 && app.count("--weighting"))
-    return Status::InvalidArgument("--weighting applies to --model tfidf");
-  if (o.model == Model::kTfIdf && (app.count("--k1") || app.count("--b")))
-    return Status::InvalidArgument("--k1 and --b apply to --model bm25");
+Result<SearchOptions> to_options(const SearchArgs& a) {
+  auto o = to_search_options(a.model);
+  if (!o) return o.status();
+  o->top = a.top;
+  o->offset = a.offset;
+  o->snippets = !a.no_snippets;
   return o;
 }
 
@@ -80,9 +64,7 @@ int run_single(Searcher& searcher, const SearchArgs& a, const SearchOptions& o) 
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
   bool tty = stdout_is_tty();
   std::printf("%llu matching documents (%s)\n", static_cast<unsigned long long>(results->matched),
-              o.model == Model::kBm25 ? ("bm25 k1=" + std::to_string(o.bm25.k1).substr(0, 4) +
-                                         " b=" + std::to_string(o.bm25.b).substr(0, 4)).c_str()
-                                      : ("tfidf " + o.smart.notation()).c_str());
+              describe(o).c_str());
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
     const Hit& h = results->hits[i];
     std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());
@@ -116,7 +98,7 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
 int run_search(const SearchArgs& a, const std::string& index_flag, CLI::App& app) {
   if (a.batch.empty() == a.query.empty())
     return fail(Status::InvalidArgument("give either a QUERY or --batch FILE"));
-  auto opts = to_options(a, app);
+  auto opts = to_options(a);
   if (!opts) return fail(opts.status());
   auto reader = IndexReader::open(resolve_index(index_flag));
   if (!reader) return fail(reader.status());
@@ -130,14 +112,7 @@ int run_search(const SearchArgs& a, const std::string& index_flag, CLI::App& app
 Runner add_search_command(CLI::App& app, const std::string& index_flag) {
   auto a = std::make_shared<SearchArgs>();
   app.add_option("query", a->query, "the query: words, \"phrases\", +required, -excluded, title:word");
-  app.add_option("--model", a->model, "bm25 (default) or tfidf");
-  app.add_option("--k1", a->k1, "BM25 tf saturation (default 1.2)")->check(CLI::Range(0.0, 1000.0));
-  app.add_option("--b", a->b, "BM25 length normalisation (default 0.75)")->check(CLI::Range(0.0, 1.0));
-  app.add_option("--weighting", a->weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
-  app.add_option("--log-base", a->log_base, "base of the logs in TF-IDF weights (default 10)")
-      ->check(CLI::Range(1.000001, 1e9));
-  app.add_option("--title-weight", a->title_weight, "weight of title matches (default 0.5)")->check(CLI::Range(0.0, 1e6));
-  app.add_option("--body-weight", a->body_weight, "weight of body matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  add_model_options(app, a->model);
   app.add_option("--top", a->top, "number of hits (default 10; 1000 with --batch)");
   app.add_option("--offset", a->offset, "skip this many hits first (paging)");
   app.add_flag("--json", a->json, "print results as JSON (schema lode.search/1)");

@@ -4,6 +4,14 @@
 
 namespace lode::cli {
 
+namespace {
+std::string fmt(double x) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%g", x);
+  return buf;
+}
+}  // namespace
+
 void add_model_options(CLI::App& app, ModelArgs& a) {
   app.add_option("--model", a.model, "bm25 (default) or tfidf");
   app.add_option("--k1", a.k1, "BM25 tf saturation (default 1.2)")->check(CLI::Range(0.0, 1000.0));
@@ -11,8 +19,13 @@ void add_model_options(CLI::App& app, ModelArgs& a) {
   app.add_option("--weighting", a.weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
   app.add_option("--log-base", a.log_base, "base of the logs in TF-IDF weights (default 10)")
       ->check(CLI::Range(1.000001, 1e9));
-  app.add_option("--title-weight", a.title_weight, "weight of title matches (default 0.5)")->check(CLI::Range(0.0, 1e6));
-  app.add_option("--body-weight", a.body_weight, "weight of body matches (default 1)")->check(CLI::Range(0.0, 1e6));
+  app.add_option("--title-weight", a.title_weight, "weight of title matches (default " + fmt(a.title_weight) + ")")
+      ->check(CLI::Range(0.0, 1e6));
+  app.add_option("--body-weight", a.body_weight, "weight of body matches (default " + fmt(a.body_weight) + ")")
+      ->check(CLI::Range(0.0, 1e6));
+  app.add_option("--fields", a.fields,
+                 "BM25: joint (BM25F, title and body tf combined before saturation) or sum (each field "
+                 "scored alone, then added); default " + a.fields);
   app.add_option("--feedback-docs", a.feedback_docs,
                  "pseudo-relevance feedback (RM3) from this many top documents (default 0 = off)")
       ->check(CLI::Range(0, 1000));
@@ -33,6 +46,10 @@ Result<SearchOptions> to_search_options(const ModelArgs& a) {
     return Status::InvalidArgument("--weighting applies to --model tfidf");
   if (o.model == Model::kTfIdf && (a.k1 != o.bm25.k1 || a.b != o.bm25.b))
     return Status::InvalidArgument("--k1 and --b apply to --model bm25");
+  auto fields = parse_field_scoring(a.fields);
+  if (!fields) return Status::InvalidArgument("--fields must be joint or sum, not '" + a.fields + "'");
+  if (o.model == Model::kTfIdf && *fields != o.fields) return Status::InvalidArgument("--fields applies to --model bm25");
+  o.fields = *fields;
   o.bm25 = {a.k1, a.b};
   o.smart = *w;
   o.smart.log_base = a.log_base;
@@ -44,7 +61,8 @@ Result<SearchOptions> to_search_options(const ModelArgs& a) {
 std::string describe(const SearchOptions& o) {
   char buf[256];
   if (o.model == Model::kBm25)
-    std::snprintf(buf, sizeof buf, "bm25 k1=%g b=%g", o.bm25.k1, o.bm25.b);
+    std::snprintf(buf, sizeof buf, "bm25 k1=%g b=%g fields=%s", o.bm25.k1, o.bm25.b,
+                  std::string(field_scoring_name(o.fields)).c_str());
   else
     std::snprintf(buf, sizeof buf, "tfidf %s log=%g", o.smart.notation().c_str(), o.smart.log_base);
   std::string s = buf;

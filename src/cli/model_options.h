@@ -1,6 +1,6 @@
 // The model-parameter options shared by `lode search` and `lode eval` (one
 // vocabulary: --model, --k1, --b, --weighting, --log-base, --title-weight,
-// --body-weight, --feedback-docs, --feedback-terms, --feedback-weight), and a
+// --body-weight, --fields, --feedback-docs, --feedback-terms, --feedback-weight), and a
 // one-line description of a setting for reports. Presentation only.
 #pragma once
 
@@ -17,6 +17,7 @@ struct ModelArgs {
   std::string weighting = SearchOptions{}.smart.notation();
   double log_base = SearchOptions{}.smart.log_base;
   double title_weight = SearchOptions{}.field_weight[0], body_weight = SearchOptions{}.field_weight[1];
+  std::string fields{field_scoring_name(SearchOptions{}.fields)};
   std::size_t feedback_docs = SearchOptions{}.feedback.documents;
   std::size_t feedback_terms = SearchOptions{}.feedback.terms;
   double feedback_weight = SearchOptions{}.feedback.original_weight;
@@ -27,7 +28,7 @@ void add_model_options(CLI::App& app, ModelArgs& args);
 // The SearchOptions for `args`; InvalidArgument for an unknown model or
 // weighting, or a parameter of the other model set away from its default.
 Result<SearchOptions> to_search_options(const ModelArgs& args);
-// "bm25 k1=1.2 b=0.75 title=1 body=1" (+ " feedback=10x10@0.5"), or the TF-IDF equivalent.
+// "bm25 k1=1.2 b=0.75 fields=joint title=1 body=1" (+ " feedback=10x10@0.5"), or the TF-IDF equivalent.
 std::string describe(const SearchOptions& o);
 
 }  // namespace lode::cli

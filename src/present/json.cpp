@@ -15,6 +15,7 @@ nlohmann::json model_json(const SearchOptions& o) {
   if (o.model == Model::kBm25) {
     m["k1"] = o.bm25.k1;
     m["b"] = o.bm25.b;
+    m["fields"] = field_scoring_name(o.fields);
   } else {
     m["weighting"] = o.smart.notation();
     m["log_base"] = o.smart.log_base;

@@ -1,5 +1,6 @@
 #include "ranking/scorer.h"
 
+#include <algorithm>
 #include <cmath>
 
 namespace lode::rank {
@@ -9,9 +10,11 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
   auto n = static_cast<double>(stats_.documents);
   if (options.model == Model::kBm25) {
     for (auto& t : terms_) {
-      t.idf = t.info ? bm25_idf(n, static_cast<double>(t.info->df)) : 0;
+      t.df = t.info ? t.info->df : 0;
       t.query_weight = t.qtf;
     }
+    if (options.fields == FieldScoring::kJoint) status_ = group_fields();
+    for (auto& t : terms_) t.idf = t.info ? bm25_idf(n, static_cast<double>(t.df)) : 0;
     return;
   }
   // TF-IDF: one query vector per field, normalised on its own.
@@ -29,7 +32,8 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
     double sum_sq = 0;
     for (auto& t : terms_) {
       if (t.field != f) continue;
-      double df = t.info ? static_cast<double>(t.info->df) : 0;
+      t.df = t.info ? t.info->df : 0;
+      double df = static_cast<double>(t.df);
       t.idf = smart_idf(w.query_idf, n, df, w.log_base);
       t.query_weight = df > 0 ? smart_tf(w.query_tf, t.qtf, max_qtf, avg_qtf, length, w.log_base) * t.idf : 0;
       sum_sq += t.query_weight * t.query_weight;
@@ -38,6 +42,75 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
       for (auto& t : terms_)
         if (t.field == f) t.query_weight /= std::sqrt(sum_sq);
   }
+}
+
+// Terms of one word in several fields form a group; its df counts the live
+// documents in the union of the fields' postings (merged here, once per query).
+Status Scorer::group_fields() {
+  std::vector<std::string> words;
+  for (auto& t : terms_) {
+    auto it = std::find(words.begin(), words.end(), t.term);
+    t.group = static_cast<std::size_t>(it - words.begin());
+    if (it == words.end()) words.push_back(t.term);
+  }
+  group_x_.assign(words.size(), 0);
+  for (std::size_t g = 0; g < words.size(); ++g) {
+    std::vector<std::unique_ptr<PostingCursor>> cursors;
+    std::vector<ScoringTerm*> members;
+    for (auto& t : terms_)
+      if (t.group == g && t.info) {
+        members.push_back(&t);
+        cursors.push_back(reader_.postings(*t.info));
+      }
+    if (members.size() < 2) continue;  // one field: its own df is the union
+    std::uint64_t df = 0;
+    while (true) {
+      DocId doc = 0;
+      bool any = false;
+      for (auto& c : cursors)
+        if (c->valid() && (!any || c->doc() < doc)) {
+          doc = c->doc();
+          any = true;
+        }
+      if (!any) break;
+      for (auto& c : cursors)
+        if (c->valid() && c->doc() == doc) c->next();
+      if (reader_.live(doc)) ++df;
+    }
+    for (auto& c : cursors) LODE_RETURN_IF_ERROR(c->status());
+    for (ScoringTerm* t : members) t->df = df;
+  }
+  return Status();
+}
+
+// BM25F: per group, x = sum of w_f * tf_f / B_f, one saturation; each entry
+// gets the share of its group's part that its field brought to x.
+double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out) {
+  std::fill(group_x_.begin(), group_x_.end(), 0.0);
+  std::vector<double>& norm = term_norm_;  // per term: tf_f / B_f
+  norm.assign(terms_.size(), 0.0);
+  for (std::size_t i = 0; i < terms_.size(); ++i) {
+    if (tfs[i] == 0) continue;
+    const ScoringTerm& t = terms_[i];
+    double b_norm = bm25_length_norm(reader_.length(doc, t.field), stats_.average_length(t.field), options_.bm25.b);
+    norm[i] = tfs[i] / b_norm;
+    group_x_[t.group] += options_.field_weight[static_cast<std::size_t>(t.field)] * norm[i];
+  }
+  const double k1 = options_.bm25.k1;
+  double total = 0;
+  for (std::size_t i = 0; i < terms_.size(); ++i) {
+    if (tfs[i] == 0) continue;
+    const ScoringTerm& t = terms_[i];
+    const double x = group_x_[t.group];
+    const double fw = options_.field_weight[static_cast<std::size_t>(t.field)];
+    const double tf_part = norm[i] / x * (x * (k1 + 1.0) / (x + k1));
+    const double contribution = fw * t.query_weight * t.idf * tf_part;
+    total += contribution;
+    if (out)
+      out->push_back(TermContribution{t.term, t.field, tfs[i], t.df, t.idf, reader_.length(doc, t.field),
+                                      stats_.average_length(t.field), tf_part, t.query_weight, fw, contribution});
+  }
+  return total;
 }
 
 Result<std::uint64_t> Scorer::df_of(TermId id) {
@@ -80,6 +153,8 @@ Result<Scorer::DocVector> Scorer::doc_vector(DocId doc, Field field) {
 
 Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
                              std::vector<TermContribution>* out) {
+  LODE_RETURN_IF_ERROR(status_);
+  if (options_.model == Model::kBm25 && options_.fields == FieldScoring::kJoint) return score_joint(doc, tfs, out);
   double total = 0;
   std::optional<DocVector> vec[kFieldCount];
   const bool bm25 = options_.model == Model::kBm25;
@@ -102,7 +177,7 @@ Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
         if (!v) return v.status();
         vec[fi] = *v;
       }
-      double df = static_cast<double>(t.info->df);
+      double df = static_cast<double>(t.df);
       double doc_idf = smart_idf(w.doc_idf, n, df, w.log_base);
       tf_part = smart_tf(w.doc_tf, tfs[i], vec[fi]->max_tf, vec[fi]->avg_tf, len, w.log_base) * doc_idf /
                 vec[fi]->norm;
@@ -110,7 +185,7 @@ Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
     }
     total += contribution;
     if (out)
-      out->push_back(TermContribution{t.term, t.field, tfs[i], t.info->df, t.idf, len, avg, tf_part,
+      out->push_back(TermContribution{t.term, t.field, tfs[i], t.df, t.idf, len, avg, tf_part,
                                       t.query_weight, fw, contribution});
   }
   return total;

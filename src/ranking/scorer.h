@@ -16,13 +16,16 @@ struct ScoringTerm {
   Field field = Field::kBody;
   std::optional<TermInfo> info;  // nullopt: not in the index
   double qtf = 0;                // occurrences in the query
+  std::uint64_t df = 0;          // df behind idf: the field's; joint BM25: documents with the term in any field
+  std::size_t group = 0;         // joint BM25: index of the term's group (same word, any field)
   double idf = 0;                // BM25 idf, or the query-side SMART idf
   double query_weight = 0;       // BM25: qtf; TF-IDF: normalised query weight
 };
 
 class Scorer {
  public:
-  // Fills idf and query_weight of `terms` for the chosen model.
+  // Fills idf, df and query_weight of `terms` for the chosen model. Index
+  // read errors while doing so are returned by every score() call.
   Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms);
 
   // Score of `doc` where tfs[i] is the tf of terms[i] in it (0 = absent).
@@ -36,12 +39,18 @@ class Scorer {
   };
   Result<DocVector> doc_vector(DocId doc, Field field);
   Result<std::uint64_t> df_of(TermId id);
+  // Joint BM25: groups terms by word and gives each group its any-field df.
+  Status group_fields();
+  double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
 
   IndexReader& reader_;
   const SearchOptions& options_;
   std::vector<ScoringTerm>& terms_;
   CollectionStats stats_;
   std::unordered_map<TermId, std::uint64_t> df_cache_;
+  Status status_;                       // from the constructor (group_fields); score() returns it
+  std::vector<double> group_x_;         // joint BM25 scratch: x per group
+  std::vector<double> term_norm_;       // joint BM25 scratch: tf / B per term
 };
 
 }  // namespace lode::rank

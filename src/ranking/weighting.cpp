@@ -81,10 +81,21 @@ double smart_idf(char letter, double n_docs, double df, double log_base) {
 
 double bm25_idf(double n_docs, double df) { return std::log(1.0 + (n_docs - df + 0.5) / (df + 0.5)); }
 
+double bm25_length_norm(double length, double avg_length, double b) {
+  return avg_length > 0 ? (1.0 - b + b * length / avg_length) : 1.0;
+}
+
 double bm25_tf_part(double tf, double length, double avg_length, const Bm25Params& p) {
   if (tf <= 0) return 0;
-  double norm = avg_length > 0 ? (1.0 - p.b + p.b * length / avg_length) : 1.0;
-  return tf * (p.k1 + 1.0) / (tf + p.k1 * norm);
+  return tf * (p.k1 + 1.0) / (tf + p.k1 * bm25_length_norm(length, avg_length, p.b));
+}
+
+std::string_view field_scoring_name(FieldScoring f) { return f == FieldScoring::kJoint ? "joint" : "sum"; }
+
+std::optional<FieldScoring> parse_field_scoring(std::string_view name) {
+  if (name == "joint") return FieldScoring::kJoint;
+  if (name == "sum") return FieldScoring::kSum;
+  return std::nullopt;
 }
 
 }  // namespace lode

@@ -121,6 +121,12 @@ Parsed<SearchRequest> parse_search(const Params& p, const ServeLimits& limits, b
   for (auto* v : {&k1, &b, &base, &tw, &bw})
     if (auto* bad = std::get_if<Problem>(v)) return *bad;
   o.bm25 = {std::get<double>(k1), std::get<double>(b)};
+  if (std::string f = get(p, "fields"); !f.empty()) {
+    auto fs = parse_field_scoring(f);
+    if (!fs) return bad_parameter("fields", "fields must be joint or sum, not '" + f + "'");
+    if (o.model != Model::kBm25) return bad_parameter("fields", "fields applies to model bm25");
+    o.fields = *fs;
+  }
   if (std::string w = get(p, "weighting"); !w.empty()) {
     auto sw = SmartWeighting::parse(w);
     if (!sw) return bad_parameter("weighting", sw.status().message());

@@ -173,7 +173,7 @@ void add_api_routes(httplib::Server& http, const Context& ctx) {
     return [&ctx, fn](const httplib::Request& req, httplib::Response& res, const Params& p) { fn(ctx, req, res, p); };
   };
   const std::vector<std::string> model = {"index", "q", "model", "k1", "b", "weighting", "log_base",
-                                          "title_weight", "body_weight"};
+                                          "title_weight", "body_weight", "fields"};
   auto search_params = model, explain_params = model;
   search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets"});
   explain_params.push_back("doc");

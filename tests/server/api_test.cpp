@@ -40,6 +40,7 @@ TEST_CASE("API: search equals the CLI's --json output, field for field") {
       {{{"q", "generator fuel"}, {"k1", "2"}, {"b", "0.3"}, {"offset", "3"}, {"top", "4"}},
        "--k1 2 --b 0.3 --offset 3 --top 4 'generator fuel'"},
       {{{"q", "+seal pup -grey"}, {"title_weight", "0"}}, "--title-weight 0 '+seal pup -grey'"},
+      {{{"q", "storm damage"}, {"fields", "sum"}, {"title_weight", "0.5"}}, "--fields sum --title-weight 0.5 'storm damage'"},
       {{{"q", "\"tide gauge\""}, {"model", "tfidf"}, {"log_base", "2.718281828459045"}},
        "--model tfidf --log-base 2.718281828459045 '\"tide gauge\"'"},
   };
@@ -173,6 +174,8 @@ TEST_CASE("API: bad parameters get problem details naming the parameter") {
       {{{"q", "storm"}, {"offset", "9990"}, {"top", "20"}}, 400, "over-limit", "offset", "10000"},
       {{{"q", "storm"}, {"weighting", "lnc.ltc"}}, 400, "bad-parameter", "weighting", "tfidf"},
       {{{"q", "storm"}, {"model", "tfidf"}, {"k1", "1"}}, 400, "bad-parameter", "k1", "bm25"},
+      {{{"q", "storm"}, {"fields", "both"}}, 400, "bad-parameter", "fields", "'both'"},
+      {{{"q", "storm"}, {"model", "tfidf"}, {"fields", "sum"}}, 400, "bad-parameter", "fields", "bm25"},
       {{{"q", "storm"}, {"model", "tfidf"}, {"weighting", "lxc.ltc"}}, 400, "bad-parameter", "weighting", "x"},
       {{{"q", "storm"}, {"breakdown", "maybe"}}, 400, "bad-parameter", "breakdown", "true or false"},
       {{{"q", "storm"}, {"qq", "1"}}, 400, "bad-parameter", "qq", "unknown parameter"},
