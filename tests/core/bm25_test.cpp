@@ -92,7 +92,7 @@ TEST_CASE("breakdown contributions sum to the score and carry the statistics") {
 // weighted fields" (CIKM 2004): per-field length-normalised tfs, weighted,
 // added, then saturated once; idf from documents with the term in any field.
 // Here every field uses the same b. Computed by hand from that formula.
-TEST_CASE("joint fields (BM25F) equal a hand computation; the sum mode scores fields apart") {
+TEST_CASE("joint fields (BM25F) equal a hand computation / the sum mode scores fields apart") {
   TempDir dir;
   std::string path = dir.str("bm25f.sqlite");
   build_index(path,

@@ -49,6 +49,6 @@ void check_collection(const Expected& e) {
 
 }  // namespace
 
-TEST_CASE("quality floor: Cranfield 1400; defaults") { check_collection({"cranfield", 1400, 225, 0.4324, 0.5340, 0.3160}); }
-TEST_CASE("quality floor: MED; defaults") { check_collection({"med", 1033, 30, 0.5279, 0.6907, 0.6467}); }
-TEST_CASE("quality floor: ADI; defaults") { check_collection({"adi", 82, 35, 0.4313, 0.5161, 0.2257}); }
+TEST_CASE("quality floor: Cranfield 1400 / defaults") { check_collection({"cranfield", 1400, 225, 0.4324, 0.5340, 0.3160}); }
+TEST_CASE("quality floor: MED / defaults") { check_collection({"med", 1033, 30, 0.5279, 0.6907, 0.6467}); }
+TEST_CASE("quality floor: ADI / defaults") { check_collection({"adi", 82, 35, 0.4313, 0.5161, 0.2257}); }

@@ -16,7 +16,7 @@ const std::string kAdi = LODE_TEST_DATA "/adi";
 const std::string kData = " --queries " + kAdi + "/queries.tsv --judgments " + kAdi + "/qrels.txt ";
 }  // namespace
 
-TEST_CASE("lode eval: metrics; saved run scored again; compare with significance; sweep with SVG") {
+TEST_CASE("lode eval: metrics / saved run scored again / compare with significance / sweep with SVG") {
   TempDir dir;
   std::string idx = " --index " + dir.str("adi.sqlite") + " ";
   int rc = -1;

@@ -106,7 +106,7 @@ TEST_CASE("RM3: query weights equal the relevance-model mix computed from the do
   CHECK(fb_has_d7);
 }
 
-TEST_CASE("RM3: original weight 1 reproduces the first pass; constraints still apply; bad settings refused") {
+TEST_CASE("RM3: original weight 1 reproduces the first pass / constraints still apply / bad settings refused") {
   Fixture f;
   auto a = f.searcher->search("surge slipway", with_feedback(0, 10, 0.5));
   auto b = f.searcher->search("surge slipway", with_feedback(3, 10, 1.0));

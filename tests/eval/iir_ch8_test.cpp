@@ -33,7 +33,7 @@ std::pair<std::vector<std::string>, std::map<std::string, int>> judged_list(cons
 
 }  // namespace
 
-TEST_CASE("IIR 8.4; Exercise 8.8 (p. 162; recalled): 20 results; 6 relevant among them; 8 relevant in all") {
+TEST_CASE("IIR 8.4 / Exercise 8.8 (p. 162 / recalled): 20 results / 6 relevant among them / 8 relevant in all") {
   auto [ranked, judged] = judged_list("R R N N N N N N R N R N N N R N N N N R", 2);
   REQUIRE(ranked.size() == 20);
   // a. precision on the top 20 = 6/20
@@ -71,7 +71,7 @@ TEST_CASE("IIR 8.4; Exercise 8.8 (p. 162; recalled): 20 results; 6 relevant amon
   CHECK(average_precision(worst, judged) == doctest::Approx(e + (7.0 / 9999 + 8.0 / 10000) / 8).epsilon(1e-12));
 }
 
-TEST_CASE("IIR 8.4; Exercise 8.9 (p. 162; recalled): two systems; 4 relevant documents; MAP and R-precision") {
+TEST_CASE("IIR 8.4 / Exercise 8.9 (p. 162 / recalled): two systems / 4 relevant documents / MAP and R-precision") {
   auto [s1, j1] = judged_list("R N R N N N N N R R", 0);
   auto [s2, j2] = judged_list("N R N N R R R N N N", 0);
   // Each list holds all 4 relevant documents.
@@ -86,7 +86,7 @@ TEST_CASE("IIR 8.4; Exercise 8.9 (p. 162; recalled): two systems; 4 relevant doc
   CHECK(reciprocal_rank(s2, j2) == 0.5);
 }
 
-TEST_CASE("IIR 8.3; Exercise 8.1 (recalled): 8 relevant and 10 non-relevant returned; 20 relevant in all") {
+TEST_CASE("IIR 8.3 / Exercise 8.1 (recalled): 8 relevant and 10 non-relevant returned / 20 relevant in all") {
   // Precision 8/18 = 0.444..., recall 8/20 = 0.4 (eq. 8.1-8.2); the order within the set does not matter.
   std::string marks = "RRRRRRRRNNNNNNNNNN";
   auto [ranked, judged] = judged_list(marks, 12);
@@ -94,7 +94,7 @@ TEST_CASE("IIR 8.3; Exercise 8.1 (recalled): 8 relevant and 10 non-relevant retu
   CHECK(recall_at(ranked, judged, 18) == doctest::Approx(0.4).epsilon(1e-12));
 }
 
-TEST_CASE("nDCG with linear graded gains: a hand-computed list (lode's gain = grade; see docs/evaluation.md)") {
+TEST_CASE("nDCG with linear graded gains: a hand-computed list (lode's gain = grade / see docs/evaluation.md)") {
   // IIR eq. 8.9 uses the gain 2^grade - 1; lode, like scikit-learn's ndcg_score, uses the grade itself.
   // Ranked grades 3, 0, 2, 1; a fifth relevant document (grade 2) is missed.
   std::vector<std::string> ranked = {"a", "b", "c", "d"};

@@ -66,7 +66,7 @@ TEST_CASE("paired t-test and exact randomization test equal SciPy's (n = 6..14)"
   }
 }
 
-TEST_CASE("sampled randomization test agrees with SciPy within Monte-Carlo error (n = 40; N = 100000)") {
+TEST_CASE("sampled randomization test agrees with SciPy within Monte-Carlo error (n = 40 / N = 100000)") {
   std::mt19937 rng(11);
   std::vector<std::pair<std::vector<double>, std::vector<double>>> cases;
   nlohmann::json input{{"cases", nlohmann::json::array()}};
@@ -93,7 +93,7 @@ TEST_CASE("sampled randomization test agrees with SciPy within Monte-Carlo error
   CHECK(informative >= 2);  // the cases span p-values where the tolerance is meaningful
 }
 
-TEST_CASE("randomization test: a fixed seed gives the same p-value; counts and edge cases") {
+TEST_CASE("randomization test: a fixed seed gives the same p-value / counts and edge cases") {
   std::mt19937 rng(3);
   auto [a, b] = paired(rng, 50, 0.03);
   PairedTest x = paired_test(a, b, {20000, 99}), y = paired_test(a, b, {20000, 99});
@@ -112,7 +112,7 @@ TEST_CASE("randomization test: a fixed seed gives the same p-value; counts and e
   CHECK(one.wins == 1);
 }
 
-TEST_CASE("student_t_p: symmetric; 1 at t = 0; and the normal limit for large df") {
+TEST_CASE("student_t_p: symmetric / 1 at t = 0 / and the normal limit for large df") {
   CHECK(student_t_p(0, 5) == doctest::Approx(1.0).epsilon(1e-14));
   CHECK(student_t_p(2.5, 7) == doctest::Approx(student_t_p(-2.5, 7)).epsilon(1e-14));
   // df -> infinity: two-sided normal p at 1.96 is 0.0499958 (erfc(1.96/sqrt 2)).

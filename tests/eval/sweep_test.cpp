@@ -31,7 +31,7 @@ const Qrels kQrels = {{"q1", {{"d1", 2}, {"d3", 1}}},
 
 }  // namespace
 
-TEST_CASE("sweep: every cell equals its own run; the index is not written; best is the maximum") {
+TEST_CASE("sweep: every cell equals its own run / the index is not written / best is the maximum") {
   TempDir dir;
   std::string path = dir.str("sw.sqlite");
   build_index(path, kDocs);
@@ -87,7 +87,7 @@ TEST_CASE("sweep: every cell equals its own run; the index is not written; best 
     CHECK_MESSAGE(svg.find(label) != std::string::npos, label);
 }
 
-TEST_CASE("sweep values: lists and inclusive ranges; errors name the spec") {
+TEST_CASE("sweep values: lists and inclusive ranges / errors name the spec") {
   CHECK(parse_sweep_values("0.9,1.2").value() == std::vector<double>{0.9, 1.2});
   auto r = parse_sweep_values("0:1:0.25");
   REQUIRE(r.ok());

@@ -5,7 +5,7 @@
 
 using namespace lode;
 
-TEST_CASE("runs: ordered by score then docid descending; duplicates and bad scores refused with the line") {
+TEST_CASE("runs: ordered by score then docid descending / duplicates and bad scores refused with the line") {
   auto run = parse_run("q1 Q0 a 1 2.5 t\nq1 Q0 b 2 3.0 t\nq1 Q0 c 3 2.5 t\n\nq2 Q0 z 1 1 t\n", "r.txt");
   REQUIRE(run.ok());
   REQUIRE((*run)["q1"].size() == 3);
@@ -26,7 +26,7 @@ TEST_CASE("runs: ordered by score then docid descending; duplicates and bad scor
   CHECK((*again)["q2"].size() == 1);
 }
 
-TEST_CASE("qrels: grades; errors name the line") {
+TEST_CASE("qrels: grades / errors name the line") {
   auto q = parse_qrels("1 0 d1 2\n1 0 d2 0\n2 0 d9 1\n", "j.txt");
   REQUIRE(q.ok());
   CHECK((*q)["1"]["d1"] == 2);
@@ -37,7 +37,7 @@ TEST_CASE("qrels: grades; errors name the line") {
   CHECK(read_qrels("/nonexistent/qrels.txt").status().message().find("/nonexistent/qrels.txt") == 0);
 }
 
-TEST_CASE("queries: tab-separated and JSON Lines; comments skipped; duplicates refused") {
+TEST_CASE("queries: tab-separated and JSON Lines / comments skipped / duplicates refused") {
   auto q = parse_queries("# comment\n1\tstorm surge\r\n{\"id\": \"2\", \"text\": \"kelp\"}\n{\"id\": 3, \"text\": \"seal\"}\n",
                          "q.tsv");
   REQUIRE(q.ok());
@@ -53,7 +53,7 @@ TEST_CASE("queries: tab-separated and JSON Lines; comments skipped; duplicates r
   }
 }
 
-TEST_CASE("evaluate: unjudged queries listed and left out; missing queries count zero; depth and k apply") {
+TEST_CASE("evaluate: unjudged queries listed and left out / missing queries count zero / depth and k apply") {
   Qrels qrels = {{"1", {{"a", 1}, {"b", 1}}}, {"2", {{"x", 1}}}, {"3", {{"n", 0}}}};
   Run run = {{"1", {{"c", 3}, {"a", 2}, {"b", 1}}}, {"3", {{"n", 1}}}, {"9", {{"a", 1}}}};
   Evaluation ev = evaluate(run, qrels, EvalOptions{2, 2});
