@@ -7,6 +7,7 @@
 #include "index/codec.h"
 #include "index/lock.h"
 #include "index/schema.h"
+#include "index/slot_table.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
 
@@ -41,11 +42,10 @@ struct IndexWriter::Impl {
   schema::Counters counters;
   bool in_txn = false;
 
-  std::unordered_map<std::string, std::uint32_t> slot_of;  // field byte + term -> slot
+  SlotTable slot_of;  // (field, term) -> slot in `terms`
   codec::TextCompressor compressor;
   // Scratch reused for every document (no allocation per document).
   std::vector<std::pair<std::string_view, std::uint32_t>> by_term;  // (term, position)
-  std::string key;
   std::vector<std::uint32_t> doc_positions;
   std::vector<TermBuf> terms;
   std::vector<PendingDoc> pending;
@@ -218,15 +218,15 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
       doc_positions.push_back(by_term[i].second);
       if (i + 1 < by_term.size() && by_term[i + 1].first == by_term[i].first) continue;
       std::string_view term = by_term[i].first;
-      key.assign(1, static_cast<char>(f));
-      key.append(term);
-      auto it = slot_of.find(key);
-      if (it == slot_of.end()) {
-        it = slot_of.emplace(key, static_cast<std::uint32_t>(terms.size())).first;
+      const std::uint64_t h = SlotTable::hash(static_cast<unsigned char>(f), term);
+      std::uint32_t slot = slot_of.find(h, [&](std::uint32_t s) { return terms[s].field == f && terms[s].term == term; });
+      if (slot == SlotTable::kNone) {
+        slot = static_cast<std::uint32_t>(terms.size());
+        slot_of.insert(h, slot);
         terms.push_back(TermBuf{f, std::string(term), {}, {}, {}, {}, {}});
         batch_estimate += 2 * term.size() + 160;
       }
-      TermBuf& tb = terms[it->second];
+      TermBuf& tb = terms[slot];
       auto tf = static_cast<std::uint32_t>(doc_positions.size());
       tb.docs.push_back(id);
       tb.tfs.push_back(tf);
@@ -235,7 +235,7 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
       codec::encode_positions(tb.positions, doc_positions);
       tb.pos_end.push_back(static_cast<std::uint32_t>(tb.positions.size()));
       batch_estimate += 24 + (tb.positions.size() - before);
-      pd.slots.emplace_back(it->second, tf);
+      pd.slots.emplace_back(slot, tf);
       doc_positions.clear();
     }
   }
