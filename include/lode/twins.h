@@ -3,7 +3,11 @@
 // Method (time well under quadratic):
 //  1. MinHash: each live document's set of shingles gets `bands * rows`
 //     minimum hash values (seeded 64-bit mixers). With `shingle` = 1 the
-//     shingles are the document's index terms, read off the forward index;
+//     shingles are the document's `top_terms` heaviest index terms (TF-IDF
+//     weight, read off the forward index): a cosine is dominated by the
+//     heaviest terms, so near-duplicates share most of them, while unrelated
+//     documents, which share mainly light, common words, rarely share them —
+//     chance candidates then stay few as the archive grows;
 //     with `shingle` = k > 1 they are runs of k consecutive index terms of the
 //     stored text analyzed again (order-sensitive, slower).
 //  2. LSH banding: documents whose `rows` values agree in any band become
@@ -14,8 +18,8 @@
 //     vectors (lode/vectors.h); pairs at or above `threshold` are kept and
 //     joined into groups (union-find).
 // Recall is therefore probabilistic: a pair above the cosine threshold whose
-// shingle sets overlap little can be missed. Memory: every live document's
-// vector is held (about 16 bytes per distinct term per document).
+// shingle sets overlap little can be missed. Memory: one signature per live
+// document (8 bytes x bands x rows); vectors are read again to verify.
 //
 // Thread safety: find_twins opens its own read scope on `reader`, which must
 // have none active; one thread at a time per reader.
@@ -36,6 +40,7 @@ struct TwinOptions {
   VectorOptions vectors;
   double threshold = 0.9;      // minimum cosine of a reported pair, in (0, 1]
   std::size_t shingle = 1;     // words per shingle (1: index terms, no text re-read)
+  std::size_t top_terms = 32;  // shingle 1: the heaviest terms hashed per document (0 = all)
   // 32 bands of 4 rows: a pair with shingle Jaccard 0.7 is a candidate with
   // p = 0.9998, 0.6 p = 0.988, 0.5 p = 0.87, 0.3 p = 0.23, 0.1 p = 0.003
   // (formula above). More rows: fewer chance candidates, less recall.

@@ -12,7 +12,7 @@ namespace lode::cli {
 Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
   struct Args {
     double threshold = 0.9;
-    std::size_t shingle = 1, bands = 32, rows = 4;
+    std::size_t shingle = 1, top_terms = TwinOptions{}.top_terms, bands = 32, rows = 4;
     std::uint64_t seed = 1;
     bool json = false, quiet = false;
     VectorArgs vectors;
@@ -20,6 +20,9 @@ Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
   auto a = std::make_shared<Args>();
   app.add_option("--threshold", a->threshold, "minimum cosine similarity of a pair (default 0.9)");
   app.add_option("--shingle", a->shingle, "words per shingle; 1 = index terms (default 1)");
+  app.add_option("--top-terms", a->top_terms,
+                 "with --shingle 1: the heaviest terms hashed per document; 0 = all (default " +
+                     std::to_string(a->top_terms) + ")");
   app.add_option("--bands", a->bands, "LSH bands (default 32)");
   app.add_option("--rows", a->rows, "MinHash values per band (default 4)");
   app.add_option("--seed", a->seed, "hash seed (default 1)");
@@ -33,6 +36,7 @@ Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
     o.vectors = *vo;
     o.threshold = a->threshold;
     o.shingle = a->shingle;
+    o.top_terms = a->top_terms;
     o.bands = a->bands;
     o.rows = a->rows;
     o.seed = a->seed;

@@ -48,6 +48,7 @@ nlohmann::json twins_json(const TwinReport& r, const TwinOptions& o) {
           {"vectors", vectors_json(o.vectors)},
           {"threshold", o.threshold},
           {"shingle", o.shingle},
+          {"top_terms", o.top_terms},
           {"bands", o.bands},
           {"rows", o.rows},
           {"seed", o.seed},

@@ -26,7 +26,15 @@ Result<std::vector<std::uint64_t>> doc_shingles(IndexReader& reader, Analyzer* a
                                                 const SparseVector& v, const TwinOptions& o) {
   std::vector<std::uint64_t> items;
   if (o.shingle == 1) {
-    for (auto& e : v) items.push_back(static_cast<std::uint64_t>(e.term));
+    std::vector<TermWeight> heavy(v.begin(), v.end());
+    if (o.top_terms != 0 && heavy.size() > o.top_terms) {
+      auto heavier = [](const TermWeight& a, const TermWeight& b) {
+        return a.weight != b.weight ? a.weight > b.weight : a.term < b.term;
+      };
+      std::nth_element(heavy.begin(), heavy.begin() + static_cast<std::ptrdiff_t>(o.top_terms), heavy.end(), heavier);
+      heavy.resize(o.top_terms);
+    }
+    for (auto& e : heavy) items.push_back(static_cast<std::uint64_t>(e.term));
     return explore::shingles(items, 1);
   }
   std::vector<std::uint64_t> all;
@@ -74,17 +82,15 @@ Result<TwinReport> find_twins(IndexReader& reader, const TwinOptions& o) {
   TwinReport report;
   report.documents = docs.size();
 
-  // 1. Vectors and signatures; documents without shingles take no part.
+  // 1. Signatures; documents without shingles take no part.
   explore::MinHasher hasher(o.bands * o.rows, o.seed);
-  std::vector<SparseVector> vectors(docs.size());
   std::vector<std::vector<std::uint64_t>> sigs(docs.size());
   for (std::size_t i = 0; i < docs.size(); ++i) {
     auto v = src.document(docs[i]);
     if (!v) return v.status();
     auto sh = doc_shingles(reader, analyzer.get(), docs[i], *v, o);
     if (!sh) return sh.status();
-    vectors[i] = std::move(v.value());
-    if (!sh->empty() && !vectors[i].empty()) sigs[i] = hasher.signature(*sh);
+    if (!sh->empty() && !v->empty()) sigs[i] = hasher.signature(*sh);
     if (o.progress && (i % 1024 == 0 || i + 1 == docs.size())) o.progress(i + 1, docs.size());
   }
 
@@ -105,14 +111,26 @@ Result<TwinReport> find_twins(IndexReader& reader, const TwinOptions& o) {
   }
   report.candidate_pairs = candidates.size();
 
-  // 3. Verify by exact cosine, group with union-find.
+  // 3. Verify by exact cosine (vectors read again: pairs come ordered by
+  // their first document, which is read once per run), group with union-find.
   std::vector<std::uint64_t> ordered(candidates.begin(), candidates.end());
+  candidates = {};
   std::sort(ordered.begin(), ordered.end());
   UnionFind uf(docs.size());
   std::vector<TwinPair> kept;
+  SparseVector first;
+  std::size_t first_of = SIZE_MAX;
   for (std::uint64_t key : ordered) {
     auto i = static_cast<std::size_t>(key >> 32), j = static_cast<std::size_t>(key & 0xffffffffu);
-    double c = cosine(vectors[i], vectors[j]);
+    if (i != first_of) {
+      auto v = src.document(docs[i]);
+      if (!v) return v.status();
+      first = std::move(v.value());
+      first_of = i;
+    }
+    auto second = src.document(docs[j]);
+    if (!second) return second.status();
+    double c = cosine(first, *second);
     if (c + 1e-12 < o.threshold) continue;
     kept.push_back({docs[i], docs[j], std::min(c, 1.0)});
     uf.join(i, j);
