@@ -11,13 +11,20 @@
 # connection counts, so the cost of search shows beside the cost of HTTP.
 # Reports requests/s, p50/p99 latency, and the server's RSS before and after.
 #
-# Usage: bench/serve_load.sh [BUILD_DIR]    (env: SECONDS_PER_LEVEL, INDEX, THREADS)
+# Usage: bench/serve_load.sh [BUILD_DIR]
+#   env: SECONDS_PER_LEVEL, INDEX, THREADS; QUERIES (a TSV whose 2nd column is
+#   the query, default sample_corpus/queries.tsv; for a generated index use the
+#   queries-*.tsv that bench_query --dump-queries writes); LEVELS (connection
+#   counts, default "1 16 64"); ROUTES (default "search health").
 set -euo pipefail
 cd "$(dirname "$0")/.."
 build="${1:-build}"
 lode="$build/lode"
 secs="${SECONDS_PER_LEVEL:-20}"
 threads="${THREADS:-8}"
+queries="${QUERIES:-sample_corpus/queries.tsv}"
+levels="${LEVELS:-1 16 64}"
+routes="${ROUTES:-search health}"
 command -v wrk >/dev/null || { echo "serve_load: wrk is not installed (apt-get install wrk)" >&2; exit 1; }
 [ -x "$lode" ] || { echo "serve_load: no lode binary at $lode (build first)" >&2; exit 1; }
 
@@ -30,7 +37,7 @@ if [ -z "${INDEX:-}" ]; then "$lode" --index "$index" index -q sample_corpus/arc
 lua="$out/queries.lua"
 {
   echo 'local q = {'
-  cut -f2 sample_corpus/queries.tsv | python3 -c '
+  cut -f2 "$queries" | python3 -c '
 import sys, urllib.parse
 for line in sys.stdin:
     line = line.strip()
@@ -50,15 +57,16 @@ rss() { awk '/VmRSS/ {print $2 " kB"}' "/proc/$pid/status"; }
 curl -fsS "$url/api/v1/search?q=storm" >/dev/null  # readers opened once before measuring
 
 {
-  echo "lode serve load test: $(date -u +%FT%TZ), $(nproc) cores, server threads $threads, ${secs}s per level"
+  echo "lode serve load test: $(date -u +%FT%TZ), $(nproc) cores, server threads $threads, ${secs}s per level, load $(cut -d' ' -f1-3 /proc/loadavg)"
+  echo "queries: $queries"
   echo "index: $index ($("$lode" --index "$index" stats --json | python3 -c 'import json,sys; print(json.load(sys.stdin)["documents"])') documents)"
   echo "RSS before: $(rss)"
   printf '%-8s %-6s %12s %10s %10s %8s\n' route conns "requests/s" p50 p99 errors
 } | tee "$out/summary.txt"
 
-for conns in 1 16 64; do
+for conns in $levels; do
   t=$(( conns < 2 ? 1 : 2 ))
-  for route in search health; do
+  for route in $routes; do
     if [ "$route" = search ]; then args=(-s "$lua" "$url/"); else args=("$url/api/v1/health"); fi
     wrk -t"$t" -c"$conns" -d"${secs}s" --latency "${args[@]}" >"$out/wrk-$route-$conns.txt"
     f="$out/wrk-$route-$conns.txt"
