@@ -1,6 +1,7 @@
 // IndexWriter: an in-memory batch of inverted postings, flushed into SQLite
 // blocks in one transaction per batch (see docs/index-format.md).
 #include <algorithm>
+#include <deque>
 #include <map>
 #include <unordered_map>
 
@@ -47,7 +48,9 @@ struct IndexWriter::Impl {
   // Scratch reused for every document (no allocation per document).
   std::vector<std::pair<std::string_view, std::uint32_t>> by_term;  // (term, position)
   std::vector<std::uint32_t> doc_positions;
-  std::vector<TermBuf> terms;
+  // A deque: growing it never copies the batch's millions of term buffers
+  // (a vector's reallocation briefly held them twice, well past the batch).
+  std::deque<TermBuf> terms;
   std::vector<PendingDoc> pending;
   std::map<std::uint32_t, std::string> dirty_norms;  // chunk -> bytes
   std::size_t batch_estimate = 0;
@@ -224,17 +227,21 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
         slot = static_cast<std::uint32_t>(terms.size());
         slot_of.insert(h, slot);
         terms.push_back(TermBuf{f, std::string(term), {}, {}, {}, {}, {}});
-        batch_estimate += 2 * term.size() + 160;
+        // The buffer, its four vectors' first allocations (a malloc chunk of
+        // 32 bytes each), the term, and its dictionary cells.
+        batch_estimate += sizeof(TermBuf) + 4 * 32 + term.size() + 32;
       }
       TermBuf& tb = terms[slot];
       auto tf = static_cast<std::uint32_t>(doc_positions.size());
+      // Memory counted as allocated (capacity; vectors double): four vectors
+      // of 4-byte values grow together, and the positions.
+      const std::size_t before = tb.positions.capacity() + 16 * tb.docs.capacity();
       tb.docs.push_back(id);
       tb.tfs.push_back(tf);
       tb.lengths.push_back(len[fi]);
-      std::size_t before = tb.positions.size();
       codec::encode_positions(tb.positions, doc_positions);
       tb.pos_end.push_back(static_cast<std::uint32_t>(tb.positions.size()));
-      batch_estimate += 24 + (tb.positions.size() - before);
+      batch_estimate += tb.positions.capacity() + 16 * tb.docs.capacity() - before;
       pd.slots.emplace_back(slot, tf);
       doc_positions.clear();
     }
