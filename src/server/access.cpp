@@ -39,12 +39,14 @@ bool valid_token(std::string_view token) {
 }
 
 bool authorized(const httplib::Request& req, const std::string& token) {
-  const std::string& auth = req.get_header_value("Authorization");
+  // get_header_value returns a copy: keep it alive while views point into it.
+  const std::string auth = req.get_header_value("Authorization");
   constexpr std::string_view kBearer = "Bearer ";
   if (auth.size() > kBearer.size() && std::string_view(auth).substr(0, kBearer.size()) == kBearer &&
       constant_time_equal(std::string_view(auth).substr(kBearer.size()), token))
     return true;
-  std::string_view cookie = cookie_value(req.get_header_value("Cookie"), kAccessCookie);
+  const std::string cookies = req.get_header_value("Cookie");
+  std::string_view cookie = cookie_value(cookies, kAccessCookie);
   return !cookie.empty() && constant_time_equal(cookie, token);
 }
 
