@@ -41,7 +41,7 @@ void check_collection(const Expected& e) {
   REQUIRE_MESSAGE(run.ok(), run.status().to_string());
   Evaluation ev = evaluate(*run, *qrels);
   CHECK(ev.per_query.size() == e.judged);
-  MESSAGE(e.name << ": MAP " << ev.mean.ap << ", nDCG@10 " << ev.mean.ndcg10 << ", P@10 " << ev.mean.p10);
+  MESSAGE(std::string(e.name) << ": MAP " << ev.mean.ap << ", nDCG@10 " << ev.mean.ndcg10 << ", P@10 " << ev.mean.p10);
   CHECK(ev.mean.ap >= e.map - 0.01);
   CHECK(ev.mean.ndcg10 >= e.ndcg10 - 0.01);
   CHECK(ev.mean.p10 >= e.p10 - 0.01);
