@@ -7,6 +7,8 @@
 //   tfidf         TF-IDF cosine lnc.ltc, breakdown and snippets
 //   bm25-rank     BM25, ranking only (no breakdown, no snippets)
 //   tfidf-rank    lnc.ltc, ranking only
+//   *-count-all   the two ranking-only runs without pruning (every match
+//                 scored; the exhaustive baseline for lode/topk.h)
 // Baseline beside them: lode::parse_query alone (syntax + analysis, no index).
 // Each configuration runs the whole set once as warm-up (reported apart,
 // excluded from the figures), then --repeat more times (fewer once --budget-s
@@ -135,15 +137,19 @@ int run(const Args& a) {
     const char* name;
     Model model;
     bool full;
+    bool count_all = false;  // exhaustive: pruning off, every match scored
   };
   const Result<SmartWeighting> lnc_ltc = SmartWeighting::parse("lnc.ltc");
   if (!lnc_ltc) return fail(lnc_ltc.status());
   for (const Config& c : {Config{"bm25", Model::kBm25, true}, Config{"tfidf-lnc.ltc", Model::kTfIdf, true},
-                          Config{"bm25-rank", Model::kBm25, false}, Config{"tfidf-lnc.ltc-rank", Model::kTfIdf, false}}) {
+                          Config{"bm25-rank", Model::kBm25, false}, Config{"tfidf-lnc.ltc-rank", Model::kTfIdf, false},
+                          Config{"bm25-rank-count-all", Model::kBm25, false, true},
+                          Config{"tfidf-lnc.ltc-rank-count-all", Model::kTfIdf, false, true}}) {
     SearchOptions o;
     o.model = c.model;
     o.smart = lnc_ltc.value();
     o.breakdown = o.snippets = c.full;
+    o.count_all = c.count_all;
     add(c.name, measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
           auto r = (*searcher)->search(q, o);
           return r ? static_cast<long long>(r->matched) : -1;

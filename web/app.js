@@ -203,11 +203,12 @@ function render(res) {
   const model = res.model.name === "bm25" ? `BM25 k1 ${fmt(res.model.k1, 2)} b ${fmt(res.model.b, 2)}`
                                           : `TF-IDF ${res.model.weighting}`;
   const notes = res.warnings.length ? " · " + res.warnings.join("; ") : "";
+  const count = res.matched_exact ? `${res.matched}` : `at least ${res.matched}`;
   $("status").textContent = res.matched === 0 ? `No document matches (${model}).${notes}`
-    : `${first}–${last} of ${res.matched} matching documents · ${model}${notes}`;
-  const pages = Math.max(1, Math.ceil(res.matched / PAGE));
-  $("pager").hidden = res.matched <= PAGE;
-  $("page-of").textContent = `page ${state.page} of ${pages}`;
+    : `${first}–${last} of ${count} matching documents · ${model}${notes}`;
+  const pages = knownPages(res);
+  $("pager").hidden = pages <= 1;
+  $("page-of").textContent = res.matched_exact ? `page ${state.page} of ${pages}` : `page ${state.page}`;
   $("prev").disabled = state.page <= 1;
   $("next").disabled = state.page >= pages;
   document.body.dataset.ready = "1";
@@ -300,9 +301,16 @@ function moveFocus(step) {
   hits[i].focus();
 }
 
+// Pages known to exist: all of them when the count is exact; when pruned
+// retrieval left it a lower bound, one more after every full page.
+function knownPages(res) {
+  const counted = Math.max(1, Math.ceil(res.matched / PAGE));
+  return res.matched_exact ? counted : Math.max(counted, state.page + (res.hits.length === PAGE ? 1 : 0));
+}
+
 function turnPage(step) {
   if (!lastResults) return;
-  const pages = Math.max(1, Math.ceil(lastResults.matched / PAGE));
+  const pages = knownPages(lastResults);
   const next = Math.min(pages, Math.max(1, state.page + step));
   if (next === state.page) return;
   state.page = next;

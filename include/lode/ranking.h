@@ -113,6 +113,10 @@ struct SearchOptions {
   std::size_t offset = 0;     // hits to skip (paging)
   bool breakdown = true;      // fill Hit::breakdown
   bool snippets = true;       // fill Hit::snippet
+  // Count every matching document exactly. Off, retrieval is pruned
+  // (lode/topk.h: the same hits and scores, far fewer documents scored) and
+  // SearchResults::matched may be a lower bound.
+  bool count_all = false;
   QueryLimits limits;
   FeedbackOptions feedback;   // pseudo-relevance feedback (off by default)
 };
@@ -152,7 +156,8 @@ struct Hit {
 
 struct SearchResults {
   std::vector<Hit> hits;       // best first; ties broken by lower doc id
-  std::uint64_t matched = 0;   // live documents matching the query
+  std::uint64_t matched = 0;   // live documents matching the query (a lower bound unless matched_exact)
+  bool matched_exact = true;   // false: pruning skipped documents that match (SearchOptions::count_all)
   std::vector<std::string> warnings;
 };
 

@@ -1,12 +1,13 @@
 // lode/similar.h — documents like a given document or passage.
 //
 // Method: the source's TF-IDF vector (lode/vectors.h); its `query_terms`
-// heaviest terms walk their postings and accumulate a partial dot product per
-// live document; the `candidates` best of those (partial score divided by
-// sqrt(1 + document length), a cheap stand-in for the vector norm) are
-// re-scored by the exact cosine of the full vectors and the top ones
-// returned. Cost grows with the postings of a few, mostly rare, terms plus
-// `candidates` forward-index reads — not with the collection size.
+// heaviest terms find the `candidates` documents with the best partial dot
+// product divided by sqrt(1 + document length) (a cheap stand-in for the
+// vector norm), by the same pruned document-at-a-time retrieval as search
+// (lode/topk.h: block-max bounds skip documents that cannot reach the
+// candidates); those are re-scored by the exact cosine of the full vectors
+// and the top ones returned. Cost grows with the postings of a few, mostly
+// rare, terms plus `candidates` forward-index reads.
 // The similarity printed is always the exact cosine; only the choice of
 // candidates is approximate (a document sharing none of the heaviest terms
 // is never found).

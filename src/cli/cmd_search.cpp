@@ -16,7 +16,7 @@ struct SearchArgs {
   std::string query;
   ModelArgs model;
   std::size_t top = 10, offset = 0;
-  bool json = false, why = false, no_snippets = false;
+  bool json = false, why = false, no_snippets = false, count_all = false;
   std::string batch, run_tag;
 };
 
@@ -26,6 +26,7 @@ Result<SearchOptions> to_options(const SearchArgs& a) {
   o->top = a.top;
   o->offset = a.offset;
   o->snippets = !a.no_snippets;
+  o->count_all = a.count_all;
   return o;
 }
 
@@ -63,8 +64,8 @@ int run_single(Searcher& searcher, const SearchArgs& a, const SearchOptions& o) 
   }
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
   bool tty = stdout_is_tty();
-  std::printf("%llu matching documents (%s)\n", static_cast<unsigned long long>(results->matched),
-              describe(o).c_str());
+  std::printf("%s%llu matching documents (%s)\n", results->matched_exact ? "" : "at least ",
+              static_cast<unsigned long long>(results->matched), describe(o).c_str());
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
     const Hit& h = results->hits[i];
     std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());
@@ -118,6 +119,8 @@ Runner add_search_command(CLI::App& app, const std::string& index_flag) {
   app.add_flag("--json", a->json, "print results as JSON (schema lode.search/1)");
   app.add_flag("--why", a->why, "print each hit's per-term score breakdown as a table");
   app.add_flag("--no-snippets", a->no_snippets, "leave snippets out (faster)");
+  app.add_flag("--count-all", a->count_all,
+               "count every matching document exactly (slower: scores them all instead of pruning)");
   app.add_option("--batch", a->batch, "queries file, one 'id<TAB>text' per line; prints a TREC run")
       ->type_name("FILE");
   app.add_option("--run-tag", a->run_tag, "last column of the TREC run (default lode-MODEL)");

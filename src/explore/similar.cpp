@@ -1,5 +1,5 @@
-// Similar documents: heaviest source terms find candidates, exact cosine ranks
-// them (method in lode/similar.h).
+// Similar documents: heaviest source terms find candidates by pruned
+// retrieval, exact cosine ranks them (method in lode/similar.h).
 #include <algorithm>
 #include <charconv>
 #include <cmath>
@@ -7,6 +7,7 @@
 #include "explore/top_n.h"
 #include "lode/ranking.h"
 #include "lode/similar.h"
+#include "lode/topk.h"
 
 namespace lode {
 
@@ -62,6 +63,47 @@ Status describe(VectorSource& src, const SparseVector& source, const SparseVecto
   return Status();
 }
 
+// The candidate score of a document: its partial dot product with the
+// heaviest source terms (document tf weight without the per-document
+// statistics max tf and length, which only the forward index holds) divided by
+// sqrt(1 + its length). Bounds for pruned retrieval (lode/topk.h): the tf
+// weight grows with tf, and the length is at least the field's.
+class CandidateModel final : public TopKModel {
+ public:
+  struct Term {
+    double weight;     // source weight x field weight x idf
+    std::uint64_t cf;  // bounds any tf
+  };
+  CandidateModel(IndexReader& reader, const VectorOptions& vo, DocId exclude)
+      : reader_(reader), exclude_(exclude), log_base_(vo.log_base),
+        tf_letter_(vo.tf == 'r' || vo.tf == 'a' || vo.tf == 'L' ? 'l' : vo.tf) {}
+  std::vector<Term> terms;
+
+  double term_bound(std::size_t i) const override { return part(i, static_cast<double>(terms[i].cf), 1); }
+  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const override {
+    return part(i, max_tf, min_length);
+  }
+  double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return part(i, tf, length(doc)); }
+  Result<bool> admit(DocId doc) override { return doc != exclude_ && reader_.live(doc); }
+  Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) override {
+    double sum = 0, len = length(doc);
+    for (std::size_t i = 0; i < terms.size(); ++i) sum += part(i, tfs[i], len);
+    return sum;
+  }
+
+ private:
+  double length(DocId doc) const {
+    return static_cast<double>(reader_.length(doc, Field::kTitle)) + reader_.length(doc, Field::kBody);
+  }
+  double part(std::size_t i, double tf, double length) const {
+    return terms[i].weight * smart_tf(tf_letter_, tf, 0, 0, 0, log_base_) / std::sqrt(1.0 + length);
+  }
+  IndexReader& reader_;
+  DocId exclude_;
+  double log_base_;
+  char tf_letter_;
+};
+
 // The search itself, inside the caller's read scope. `exclude` = 0: none.
 Result<SimilarResults> find_similar(VectorSource& src, const SparseVector& source, DocId exclude,
                                     const SimilarOptions& o) {
@@ -69,36 +111,22 @@ Result<SimilarResults> find_similar(VectorSource& src, const SparseVector& sourc
   const VectorOptions& vo = src.options();
   SimilarResults out;
   const double n = static_cast<double>(reader.stats().documents);
-  // Partial dot products over the heaviest terms, in a dense accumulator.
-  std::vector<double> acc(reader.doc_id_limit(), 0.0);
-  std::vector<DocId> touched;
+  CandidateModel model(reader, vo, exclude);
+  std::vector<std::unique_ptr<PostingCursor>> cursors;
   for (auto& q : heaviest(source, o.query_terms)) {
     auto info = src.term(q.term);
     if (!info) return info.status();
     const TermInfo& t = **info;
     out.query_terms.push_back(std::string(field_name(t.field)) + ":" + t.term);
-    double idf = smart_idf(vo.idf, n, static_cast<double>(t.df), vo.log_base);
-    double fw = vo.field_weight[static_cast<std::size_t>(t.field)];
-    auto cursor = reader.postings(t);
-    for (; cursor->valid(); cursor->next()) {
-      DocId d = cursor->doc();
-      if (d == exclude || d >= acc.size() || !reader.live(d)) continue;
-      // Document-side tf weight without its per-document statistics (max tf,
-      // length): enough to choose candidates, which are then scored exactly.
-      double w = q.weight * fw * idf * smart_tf(vo.tf == 'r' || vo.tf == 'a' || vo.tf == 'L' ? 'l' : vo.tf,
-                                                cursor->tf(), 0, 0, 0, vo.log_base);
-      if (acc[d] == 0) touched.push_back(d);
-      acc[d] += w;
-    }
-    LODE_RETURN_IF_ERROR(cursor->status());
+    const double idf = smart_idf(vo.idf, n, static_cast<double>(t.df), vo.log_base);
+    const double fw = vo.field_weight[static_cast<std::size_t>(t.field)];
+    model.terms.push_back({q.weight * fw * idf, t.cf});
+    cursors.push_back(reader.postings(t));
   }
+  auto found = top_k(cursors, model, o.candidates, false);
+  if (!found) return found.status();
   std::vector<Scored> pool;
-  pool.reserve(touched.size());
-  for (DocId d : touched) {
-    double len = reader.length(d, Field::kTitle) + reader.length(d, Field::kBody);
-    pool.push_back({acc[d] / std::sqrt(1.0 + len), d});
-  }
-  explore::keep_top(pool, o.candidates, better);
+  for (auto& c : found->ranked) pool.push_back({c.score, c.doc});
   out.candidates = pool.size();
   for (auto& c : pool) {
     auto v = src.document(c.doc);

@@ -53,7 +53,7 @@ nlohmann::json results_json(std::string_view query, const SearchResults& r, cons
   nlohmann::json hits = nlohmann::json::array();
   for (std::size_t i = 0; i < r.hits.size(); ++i) hits.push_back(hit_json(r.hits[i], o.offset + i + 1, o.breakdown));
   return {{"schema", kSearchSchema}, {"query", query},          {"model", model_json(o)},
-          {"matched", r.matched},    {"offset", o.offset},      {"hits", hits},
+          {"matched", r.matched},    {"matched_exact", r.matched_exact}, {"offset", o.offset}, {"hits", hits},
           {"warnings", r.warnings}};
 }
 

@@ -113,6 +113,57 @@ double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std
   return total;
 }
 
+namespace {
+
+// SMART document tf weight's largest value for tf <= `tf` and length >= `length`:
+// 'a' and 'b' never exceed 1, 'L' divides by 1 + log(avg tf) >= 1, 'r' is a share.
+double smart_tf_bound(char letter, double tf, double length, double log_base) {
+  switch (letter) {
+    case 'a':
+    case 'b': return 1.0;
+    case 'L': return smart_tf('l', tf, 0, 0, 0, log_base);
+    case 'r': return std::min(1.0, tf / length);
+    default: return smart_tf(letter, tf, 0, 0, 0, log_base);
+  }
+}
+
+}  // namespace
+
+// Every bound is monotone: up in tf, down in length; a field holding a term
+// tf times is at least tf long, which keeps the bounds finite.
+double Scorer::bound(std::size_t i, double tf, double length) const {
+  const ScoringTerm& t = terms_[i];
+  if (!t.info || tf <= 0) return 0;
+  length = std::max(length, tf);
+  const double fw = options_.field_weight[static_cast<std::size_t>(t.field)];
+  const double avg = stats_.average_length(t.field);
+  if (options_.model == Model::kBm25) {
+    if (options_.fields == FieldScoring::kSum) return fw * t.query_weight * t.idf * bm25_tf_part(tf, length, avg, options_.bm25);
+    // BM25F: an entry's share w*tf/B / x of its group's qtf * idf * sat(x)
+    // is at most qtf * idf * sat(w*tf/B), since sat(x)/x falls as x grows.
+    const double x = fw * tf / bm25_length_norm(length, avg, options_.bm25.b);
+    const double k1 = options_.bm25.k1;
+    return x > 0 ? t.query_weight * t.idf * (k1 + 1.0) / (1.0 + k1 / x) : 0;
+  }
+  // A cosine-normalised weight is a unit vector's component: at most 1.
+  const SmartWeighting& w = options_.smart;
+  if (w.doc_norm == 'c') return fw * t.query_weight;
+  const double doc_idf = smart_idf(w.doc_idf, static_cast<double>(stats_.documents), static_cast<double>(t.df), w.log_base);
+  return fw * t.query_weight * smart_tf_bound(w.doc_tf, tf, length, w.log_base) * doc_idf;
+}
+
+double Scorer::term_bound(std::size_t i) const {
+  return terms_[i].info ? bound(i, static_cast<double>(terms_[i].info->cf), 0) : 0;
+}
+
+double Scorer::block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const {
+  return bound(i, max_tf, min_length);
+}
+
+double Scorer::doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const {
+  return bound(i, tf, reader_.length(doc, terms_[i].field));
+}
+
 Result<std::uint64_t> Scorer::df_of(TermId id) {
   auto it = df_cache_.find(id);
   if (it != df_cache_.end()) return it->second;

@@ -33,6 +33,13 @@ class Scorer {
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs,
                        std::vector<TermContribution>* out);
 
+  // Upper bounds of terms[i]'s contribution (its breakdown entry), for
+  // pruning (lode/topk.h): to any document; to one with tf <= max_tf and
+  // field length >= min_length; to `doc`, where its tf is `tf`.
+  double term_bound(std::size_t i) const;
+  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const;
+  double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const;
+
  private:
   struct DocVector {
     double norm = 1, max_tf = 0, avg_tf = 0;
@@ -41,6 +48,8 @@ class Scorer {
   Result<std::uint64_t> df_of(TermId id);
   // Joint BM25: groups terms by word and gives each group its any-field df.
   Status group_fields();
+  // Bound for tf <= `tf` and field length >= `length`.
+  double bound(std::size_t i, double tf, double length) const;
   double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
 
   IndexReader& reader_;

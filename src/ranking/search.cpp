@@ -1,11 +1,11 @@
-// Searcher: parse, gather scoring terms, walk the union of their postings in
-// document order (exhaustive document-at-a-time), keep the top k, explain them.
+// Searcher: parse, gather scoring terms, walk their postings in document
+// order with pruning (lode/topk.h), keep the top k, explain them.
 #include <algorithm>
 #include <map>
-#include <queue>
 #include <unordered_set>
 
 #include "lode/ranking.h"
+#include "lode/topk.h"
 #include "ranking/constraint.h"
 #include "ranking/feedback.h"
 #include "ranking/pages.h"
@@ -13,14 +13,6 @@
 #include "ranking/snippet.h"
 
 namespace lode {
-namespace {
-struct Candidate {
-  double score;
-  DocId doc;
-  std::vector<std::uint32_t> tfs;
-};
-}  // namespace
-
 struct Searcher::Impl {
   IndexReader& reader;
   std::unique_ptr<Analyzer> analyzer;
@@ -34,9 +26,8 @@ struct Searcher::Impl {
   Result<Plan> plan(std::string_view text, const SearchOptions& options);
   // (Re)creates the plan's clause matchers; their cursors only move forward, so each pass needs new ones.
   Status make_matchers(Plan& plan);
-  // The best `keep` live matches of the plan, best first; counts every match in *matched.
-  Result<std::vector<Candidate>> retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep,
-                                          std::uint64_t* matched);
+  // The best `keep` live matches of the plan, best first, pruned unless count_all (lode/topk.h).
+  Result<TopKResult> retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep, bool count_all);
   // Pseudo-relevance feedback: a first pass over the plan, then RM3 rewrites its terms.
   Status expand(Plan& plan, const SearchOptions& options);
   // plan() followed by expand(): the plan a query is finally scored with.
@@ -59,14 +50,6 @@ Status check_options(const SearchOptions& o) {
     return Status::InvalidArgument("feedback original-query weight must be between 0 and 1");
   return Status();
 }
-
-// Better(a, b): a ranks above b (higher score, then lower doc id). With it the
-// priority queue keeps the worst kept candidate on top, ready to be replaced.
-struct Better {
-  bool operator()(const Candidate& a, const Candidate& b) const {
-    return a.score != b.score ? a.score > b.score : a.doc < b.doc;
-  }
-};
 
 }  // namespace
 
@@ -155,78 +138,63 @@ Result<std::unique_ptr<Searcher>> Searcher::create(IndexReader& reader) {
   return std::unique_ptr<Searcher>(new Searcher(std::make_unique<Impl>(Impl{reader, std::move(analyzer.value())})));
 }
 
-Result<std::vector<Candidate>> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep,
-                                                        std::uint64_t* matched) {
-  auto& terms = plan.terms;
-  std::vector<std::unique_ptr<PostingCursor>> cursors(terms.size());
-  for (std::size_t i = 0; i < terms.size(); ++i)
-    if (terms[i].info) cursors[i] = reader.postings(*terms[i].info);
+namespace {
 
-  std::priority_queue<Candidate, std::vector<Candidate>, Better> heap;
-  std::vector<std::uint32_t> tfs(terms.size());
-  while (true) {
-    DocId doc = 0;
-    bool any = false;
-    for (auto& c : cursors)
-      if (c && c->valid() && (!any || c->doc() < doc)) {
-        doc = c->doc();
-        any = true;
-      }
-    if (!any) break;
-    for (std::size_t i = 0; i < cursors.size(); ++i) {
-      auto& c = cursors[i];
-      tfs[i] = 0;
-      if (c && c->valid() && c->doc() == doc) {
-        tfs[i] = c->tf();
-        c->next();
-      }
-    }
-    if (!reader.live(doc)) continue;
-    if (plan.allowed && !std::binary_search(plan.allowed->begin(), plan.allowed->end(), doc)) continue;
-    bool ok = true;
-    for (auto& m : plan.required) {
-      auto r = m.contains(doc);
-      if (!r) return r.status();
-      if (!*r) { ok = false; break; }
-    }
-    for (auto& m : plan.excluded) {
-      if (!ok) break;
-      auto r = m.contains(doc);
-      if (!r) return r.status();
-      if (*r) ok = false;
-    }
-    if (!ok) continue;
-    auto score = scorer.score(doc, tfs, nullptr);
-    if (!score) return score.status();
-    ++*matched;
-    if (keep == 0) continue;
-    if (heap.size() < keep) {
-      heap.push(Candidate{*score, doc, tfs});
-    } else if (Better()(Candidate{*score, doc, {}}, heap.top())) {
-      heap.pop();
-      heap.push(Candidate{*score, doc, tfs});
-    }
+// The plan as lode/topk.h sees it: the scorer's bounds and scores, and the
+// plan's filters and clauses deciding which documents may be returned.
+class PlanModel final : public TopKModel {
+ public:
+  PlanModel(IndexReader& reader, rank::Scorer& scorer, const std::optional<std::vector<DocId>>& allowed,
+            std::vector<rank::ClauseMatcher>& required, std::vector<rank::ClauseMatcher>& excluded)
+      : reader_(reader), scorer_(scorer), allowed_(allowed), required_(required), excluded_(excluded) {}
+  double term_bound(std::size_t i) const override { return scorer_.term_bound(i); }
+  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const override {
+    return scorer_.block_bound(i, max_tf, min_length);
   }
-  for (auto& c : cursors)
-    if (c && !c->status().ok()) return c->status();
+  double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return scorer_.doc_bound(i, tf, doc); }
+  Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) override {
+    return scorer_.score(doc, tfs, nullptr);
+  }
+  Result<bool> admit(DocId doc) override {
+    if (!reader_.live(doc)) return false;
+    if (allowed_ && !std::binary_search(allowed_->begin(), allowed_->end(), doc)) return false;
+    for (auto& m : required_) {
+      auto r = m.contains(doc);
+      if (!r || !*r) return r;
+    }
+    for (auto& m : excluded_) {
+      auto r = m.contains(doc);
+      if (!r) return r;
+      if (*r) return false;
+    }
+    return true;
+  }
 
-  std::vector<Candidate> ranked;
-  while (!heap.empty()) {
-    ranked.push_back(std::move(const_cast<Candidate&>(heap.top())));
-    heap.pop();
-  }
-  std::reverse(ranked.begin(), ranked.end());
-  return ranked;
+ private:
+  IndexReader& reader_;
+  rank::Scorer& scorer_;
+  const std::optional<std::vector<DocId>>& allowed_;
+  std::vector<rank::ClauseMatcher>& required_;
+  std::vector<rank::ClauseMatcher>& excluded_;
+};
+
+}  // namespace
+
+Result<TopKResult> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep, bool count_all) {
+  std::vector<std::unique_ptr<PostingCursor>> cursors(plan.terms.size());
+  for (std::size_t i = 0; i < plan.terms.size(); ++i)
+    if (plan.terms[i].info) cursors[i] = reader.postings(*plan.terms[i].info);
+  PlanModel model(reader, scorer, plan.allowed, plan.required, plan.excluded);
+  return top_k(cursors, model, keep, count_all);
 }
 
 Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {
   if (options.feedback.documents == 0) return Status();
   rank::Scorer first(reader, options, plan.terms);
-  std::uint64_t matched = 0;
-  auto top = retrieve(plan, first, options.feedback.documents, &matched);
+  auto top = retrieve(plan, first, options.feedback.documents, false);
   if (!top) return top.status();
   std::vector<rank::FeedbackDoc> docs;
-  for (auto& c : *top) docs.push_back(rank::FeedbackDoc{c.doc, c.score});
+  for (auto& c : top->ranked) docs.push_back(rank::FeedbackDoc{c.doc, c.score});
   LODE_RETURN_IF_ERROR(rank::expand_rm3(reader, options, docs, plan.terms));
   return make_matchers(plan);
 }
@@ -247,13 +215,16 @@ Result<SearchResults> Searcher::search(std::string_view text, const SearchOption
   SearchResults results;
   results.warnings = plan->query.warnings;
   rank::Scorer scorer(reader, options, plan->terms);
-  auto ranked = impl_->retrieve(*plan, scorer, options.offset + options.top, &results.matched);
-  if (!ranked) return ranked.status();
-  for (std::size_t i = options.offset; i < ranked->size(); ++i) {
+  auto top = impl_->retrieve(*plan, scorer, options.offset + options.top, options.count_all);
+  if (!top) return top.status();
+  results.matched = top->matched;
+  results.matched_exact = top->matched_exact;
+  const std::vector<ScoredDoc>& ranked = top->ranked;
+  for (std::size_t i = options.offset; i < ranked.size(); ++i) {
     Hit hit;
-    hit.doc = (*ranked)[i].doc;
-    hit.score = (*ranked)[i].score;
-    LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, (*ranked)[i].tfs, options));
+    hit.doc = ranked[i].doc;
+    hit.score = ranked[i].score;
+    LODE_RETURN_IF_ERROR(impl_->fill_hit(hit, *plan, scorer, ranked[i].tfs, options));
     results.hits.push_back(std::move(hit));
   }
   return results;

@@ -145,6 +145,9 @@ Parsed<SearchRequest> parse_search(const Params& p, const ServeLimits& limits, b
   if (auto* bad = std::get_if<Problem>(&snippets)) return *bad;
   o.breakdown = std::get<bool>(breakdown);
   o.snippets = std::get<bool>(snippets);
+  auto count_all = flag(p, "count_all", false);
+  if (auto* bad = std::get_if<Problem>(&count_all)) return *bad;
+  o.count_all = std::get<bool>(count_all);
   return r;
 }
 

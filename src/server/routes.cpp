@@ -175,7 +175,7 @@ void add_api_routes(httplib::Server& http, const Context& ctx) {
   const std::vector<std::string> model = {"index", "q", "model", "k1", "b", "weighting", "log_base",
                                           "title_weight", "body_weight", "fields"};
   auto search_params = model, explain_params = model;
-  search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets"});
+  search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets", "count_all"});
   explain_params.push_back("doc");
   http.Get("/api/v1/search", route(search_params, bind(search)));
   http.Post("/api/v1/search", route(search_params, bind(search)));

@@ -43,6 +43,7 @@ TEST_CASE("API: search equals the CLI's --json output, field for field") {
       {{{"q", "storm damage"}, {"fields", "sum"}, {"title_weight", "0.5"}}, "--fields sum --title-weight 0.5 'storm damage'"},
       {{{"q", "\"tide gauge\""}, {"model", "tfidf"}, {"log_base", "2.718281828459045"}},
        "--model tfidf --log-base 2.718281828459045 '\"tide gauge\"'"},
+      {{{"q", "storm damage harbour"}, {"top", "2"}, {"count_all", "true"}}, "--top 2 --count-all 'storm damage harbour'"},
   };
   for (auto& k : cases) {
     CAPTURE(k.cli);
@@ -54,6 +55,13 @@ TEST_CASE("API: search equals the CLI's --json output, field for field") {
     CHECK(api == cli);
     CHECK(!cli["hits"].empty());
   }
+  // Pruned (default) and counted-all searches return the same hits; only the count may differ.
+  auto pruned = body_json(get(c, "/api/v1/search", {{"q", "storm damage harbour"}, {"top", "2"}}));
+  auto counted = body_json(get(c, "/api/v1/search", {{"q", "storm damage harbour"}, {"top", "2"}, {"count_all", "true"}}));
+  CHECK(pruned["hits"] == counted["hits"]);
+  CHECK(counted["matched_exact"] == true);
+  CHECK(pruned["matched"].get<int>() <= counted["matched"].get<int>());
+  CHECK(counted["matched"].get<int>() > 2);
   // POST takes the same parameters as a JSON object.
   auto r = c.Post("/api/v1/search", R"({"q": "storm damage", "top": 5, "breakdown": false})", "application/json");
   REQUIRE(r);
@@ -178,6 +186,7 @@ TEST_CASE("API: bad parameters get problem details naming the parameter") {
       {{{"q", "storm"}, {"model", "tfidf"}, {"fields", "sum"}}, 400, "bad-parameter", "fields", "bm25"},
       {{{"q", "storm"}, {"model", "tfidf"}, {"weighting", "lxc.ltc"}}, 400, "bad-parameter", "weighting", "x"},
       {{{"q", "storm"}, {"breakdown", "maybe"}}, 400, "bad-parameter", "breakdown", "true or false"},
+      {{{"q", "storm"}, {"count_all", "all"}}, 400, "bad-parameter", "count_all", "true or false"},
       {{{"q", "storm"}, {"qq", "1"}}, 400, "bad-parameter", "qq", "unknown parameter"},
       {{{"q", std::string(1100, 'a')}}, 400, "over-limit", "q", "1024"},
       {{{"q", many_words}}, 400, "over-limit", "q", "32"},
