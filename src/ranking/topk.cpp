@@ -3,6 +3,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <queue>
 
 namespace lode {
@@ -23,7 +24,8 @@ constexpr double kSlack = 1e-9;
 class Walk {
  public:
   Walk(std::vector<std::unique_ptr<PostingCursor>>& cursors, TopKModel& model, std::size_t k, bool prune)
-      : cursors_(cursors), model_(model), k_(k), prune_(prune), tfs_(cursors.size(), 0) {}
+      : cursors_(cursors), model_(model), k_(k), prune_(prune), tfs_(cursors.size(), 0),
+        block_last_(cursors.size(), kNoBlock), block_bound_(cursors.size(), 0) {}
 
   Result<TopKResult> run();
 
@@ -33,6 +35,8 @@ class Walk {
   bool cannot_enter(double bound) const { return full_ && bound + std::abs(bound) * kSlack < theta_; }
   // Bound of a document found only in the first m terms of order_.
   double lazy_bound(std::size_t m) const { return m == 0 ? 0.0 : prefix_[m - 1]; }
+  // The block bound of essential term order_[m]'s current block (cached).
+  double current_block_bound(std::size_t m);
   // Skips the run of documents up to the nearest end of an essential block
   // if no document in it can enter; returns whether it did.
   bool skip_blocks();
@@ -45,6 +49,9 @@ class Walk {
   const std::size_t k_;
   const bool prune_;
   std::vector<std::uint32_t> tfs_;
+  static constexpr DocId kNoBlock = std::numeric_limits<DocId>::max();
+  std::vector<DocId> block_last_;    // per term: last doc of the block whose bound is cached
+  std::vector<double> block_bound_;  // per term: that bound
   std::vector<std::size_t> order_;  // terms with postings, by ascending term bound
   std::vector<double> prefix_;      // prefix_[m] = sum of the bounds of order_[0..m]
   std::size_t lazy_ = 0;            // order_[0..lazy_) are non-essential
@@ -53,6 +60,16 @@ class Walk {
   double theta_ = 0;                // the k-th best score once full_
   TopKResult out_;
 };
+
+double Walk::current_block_bound(std::size_t m) {
+  PostingCursor& c = cursor(m);
+  const std::size_t i = order_[m];
+  if (c.block_last_doc() != block_last_[i]) {  // a new block: its bound once
+    block_last_[i] = c.block_last_doc();
+    block_bound_[i] = model_.block_bound(i, c.block_max_tf(), c.block_min_length());
+  }
+  return block_bound_[i];
+}
 
 bool Walk::skip_blocks() {
   DocId end = 0;
@@ -63,7 +80,7 @@ bool Walk::skip_blocks() {
     if (!c.valid()) continue;
     end = any ? std::min(end, c.block_last_doc()) : c.block_last_doc();
     any = true;
-    bound += model_.block_bound(order_[m], c.block_max_tf(), c.block_min_length());
+    bound += current_block_bound(m);
   }
   if (!any || !cannot_enter(bound)) return false;
   for (std::size_t m = lazy_; m < order_.size(); ++m) {
@@ -75,14 +92,19 @@ bool Walk::skip_blocks() {
 
 bool Walk::gather(DocId doc) {
   std::fill(tfs_.begin(), tfs_.end(), 0);
+  // First with the blocks' min lengths (no per-document lookup), then exact.
   double known = 0;  // bound from the terms whose tf in doc is known
   for (std::size_t m = lazy_; m < order_.size(); ++m) {
     PostingCursor& c = cursor(m);
     if (c.valid() && c.doc() == doc) {
       tfs_[order_[m]] = c.tf();
-      known += model_.doc_bound(order_[m], c.tf(), doc);
+      known += model_.block_bound(order_[m], c.tf(), c.block_min_length());
     }
   }
+  if (cannot_enter(known + lazy_bound(lazy_))) return false;
+  known = 0;
+  for (std::size_t m = lazy_; m < order_.size(); ++m)
+    if (tfs_[order_[m]] > 0) known += model_.doc_bound(order_[m], tfs_[order_[m]], doc);
   // Non-essential terms, largest bound first, while the doc can still enter.
   for (std::size_t m = lazy_; m-- > 0;) {
     if (cannot_enter(known + lazy_bound(m + 1))) return false;
