@@ -40,8 +40,13 @@ struct IndexRunOptions {
   std::function<bool()> cancelled;
   // Extraction threads; 0 = one per core (std::thread::hardware_concurrency).
   unsigned jobs = 0;
-  // Files read ahead of the writer at most (bounds memory held in results).
+  // Files read ahead of the writer at most, and the extracted text they may
+  // hold together: a worker starts no new file while finished results
+  // waiting for the writer hold more (one file always proceeds). Both bound
+  // the memory beside the writer's batch: 64 small files cost nothing, while
+  // 64 record dumps of 20 MB each would hold 1.3 GB.
   std::size_t read_ahead = 64;
+  std::size_t read_ahead_bytes = std::size_t{64} << 20;
 };
 
 struct IndexProgress {

@@ -2,9 +2,22 @@
 
 namespace lode::indexer {
 
-ExtractPool::ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead)
+namespace {
+
+// Text bytes an outcome holds (what dominates its memory).
+std::size_t held_bytes(const ReadOutcome& o) {
+  std::size_t n = 0;
+  if (o.read && o.read->ok())
+    for (const Document& d : (*o.read)->documents) n += d.body.size() + d.title.size() + d.external_id.size();
+  return n;
+}
+
+}  // namespace
+
+ExtractPool::ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead,
+                         std::size_t ahead_bytes)
     : jobs_(std::move(jobs)), options_(std::move(options)), ahead_(std::max<std::size_t>(ahead, 1)),
-      done_(jobs_.size()) {
+      ahead_bytes_(ahead_bytes), done_(jobs_.size()) {
   const unsigned n = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(jobs_.size(), 1))));
   for (unsigned i = 0; i < n; ++i) workers_.emplace_back([this](std::stop_token st) { work(st); });
 }
@@ -20,7 +33,10 @@ void ExtractPool::work(std::stop_token stop) {
     std::size_t i = 0;
     {
       std::unique_lock lock(mu_);
-      if (!cv_.wait(lock, stop, [&] { return next_ < jobs_.size() && next_ < taken_ + ahead_; })) return;
+      if (!cv_.wait(lock, stop, [&] {
+            return next_ < jobs_.size() && next_ < taken_ + ahead_ && (next_ == taken_ || waiting_bytes_ <= ahead_bytes_);
+          }))
+        return;
       i = next_++;
     }
     const ReadJob& job = jobs_[i];
@@ -30,9 +46,11 @@ void ExtractPool::work(std::stop_token stop) {
       if (hash.ok() && job.rename_hashes.count(*hash)) out.renamed_hash = *hash;
     }
     if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
+    const std::size_t bytes = held_bytes(out);
     {
       std::lock_guard lock(mu_);
       done_[i] = std::move(out);
+      waiting_bytes_ += bytes;
     }
     cv_.notify_all();
   }
@@ -43,6 +61,7 @@ ReadOutcome ExtractPool::take(std::size_t i) {
   cv_.wait(lock, [&] { return done_[i].has_value(); });
   ReadOutcome out = std::move(*done_[i]);
   done_[i].reset();
+  waiting_bytes_ -= held_bytes(out);
   taken_ = i + 1;
   lock.unlock();
   cv_.notify_all();

@@ -30,9 +30,11 @@ struct ReadOutcome {
 
 class ExtractPool {
  public:
-  // Starts `threads` workers (at least 1) over `jobs`; at most `ahead` results
-  // wait unclaimed at any time.
-  ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead);
+  // Starts `threads` workers (at least 1) over `jobs`. A worker starts the
+  // next job only while fewer than `ahead` results wait unclaimed and their
+  // documents hold at most `ahead_bytes` of text (or none waits at all).
+  ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead,
+              std::size_t ahead_bytes);
   ~ExtractPool();  // stops and joins the workers
   ExtractPool(const ExtractPool&) = delete;
   ExtractPool& operator=(const ExtractPool&) = delete;
@@ -47,6 +49,8 @@ class ExtractPool {
   std::vector<ReadJob> jobs_;
   ReadOptions options_;
   std::size_t ahead_;
+  std::size_t ahead_bytes_;
+  std::size_t waiting_bytes_ = 0;  // text held by finished, unclaimed results
   std::mutex mu_;
   std::condition_variable_any cv_;
   std::vector<std::optional<ReadOutcome>> done_;

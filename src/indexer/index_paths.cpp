@@ -199,7 +199,8 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
 
   {
     const unsigned threads = options_.jobs != 0 ? options_.jobs : std::max(1u, std::thread::hardware_concurrency());
-    indexer::ExtractPool pool(std::move(jobs), options_.read, threads, options_.read_ahead);
+    indexer::ExtractPool pool(std::move(jobs), options_.read, threads, options_.read_ahead,
+                               options_.read_ahead_bytes);
     for (std::size_t i = 0; i < todo.size(); ++i) {
       if (options_.cancelled && options_.cancelled()) {
         report_.cancelled = true;

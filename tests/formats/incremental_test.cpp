@@ -115,6 +115,13 @@ TEST_CASE("parallel extraction gives the same index as one thread") {
   index_tree(other, {s.tree()}, one);
   const std::vector<std::string> queries = {"shared", "unique7 token", "words"};
   compare(snapshot(s.index(), queries), snapshot(other, queries));
+  // A read-ahead budget of one byte: one finished file waits at a time, and
+  // the run neither stalls nor changes.
+  lode::IndexRunOptions tight = many;
+  tight.read_ahead_bytes = 1;
+  const std::string third = s.other("tight.sqlite");
+  index_tree(third, {s.tree()}, tight);
+  compare(snapshot(third, queries), snapshot(other, queries));
   // Doc ids follow the crawl order whatever the thread count.
   auto a = lode::IndexReader::open(s.index());
   auto b = lode::IndexReader::open(other);
