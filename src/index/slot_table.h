@@ -34,6 +34,23 @@ class SlotTable {
     }
   }
 
+  // Hints for a lookup of `h` a few tokens ahead (a batch's dictionary
+  // outgrows the caches, so each lookup would otherwise wait on memory):
+  // prefetch() asks for its first cell; guess() is the slot in the first
+  // cell whose tag matches, or kNone, for prefetching the key.
+  void prefetch(std::uint64_t h) const {
+    if (!cells_.empty()) __builtin_prefetch(&cells_[spot(h >> 32) & mask_]);
+  }
+  std::uint32_t guess(std::uint64_t h) const {
+    if (cells_.empty()) return kNone;
+    const std::uint64_t tag = h >> 32;
+    for (std::size_t i = spot(tag) & mask_;; i = (i + 1) & mask_) {
+      const std::uint64_t c = cells_[i];
+      if (c == 0) return kNone;
+      if ((c >> 32) == tag) return static_cast<std::uint32_t>(c & 0xFFFFFFFFu) - 1;
+    }
+  }
+
   // REQUIRES: no entry for this key yet; slot < UINT32_MAX - 1.
   void insert(std::uint64_t h, std::uint32_t slot) {
     if (2 * (size_ + 1) > cells_.size()) grow();
@@ -41,8 +58,12 @@ class SlotTable {
     ++size_;
   }
 
+  // Memory held by the cells, by allocation.
+  std::size_t bytes() const { return cells_.capacity() * sizeof(std::uint64_t); }
+
+  // Frees the cells.
   void clear() {
-    cells_.clear();
+    decltype(cells_)().swap(cells_);
     size_ = 0;
     mask_ = 0;
   }

@@ -1,38 +1,18 @@
-// IndexWriter: an in-memory batch of inverted postings, flushed into SQLite
-// blocks in one transaction per batch (see docs/index-format.md).
+// IndexWriter: an in-memory batch of inverted postings (PostingBatch),
+// flushed into SQLite blocks in one transaction per batch (see
+// docs/index-format.md).
 #include <algorithm>
-#include <deque>
 #include <map>
-#include <unordered_map>
+#include <span>
 
 #include "index/codec.h"
 #include "index/lock.h"
+#include "index/posting_batch.h"
 #include "index/schema.h"
-#include "index/slot_table.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
 
 namespace lode {
-namespace {
-
-// Postings of one (field, term) gathered in the current batch.
-struct TermBuf {
-  Field field;
-  std::string term;
-  std::vector<DocId> docs;
-  std::vector<std::uint32_t> tfs;
-  std::vector<std::uint32_t> lengths;   // field length of each doc (for block min_len)
-  std::string positions;                // varint deltas, doc after doc
-  std::vector<std::uint32_t> pos_end;   // end offset of each doc's positions
-};
-
-struct PendingDoc {
-  DocId id;
-  std::vector<std::pair<std::uint32_t, std::uint32_t>> slots;  // (term slot, tf)
-};
-
-
-}  // namespace
 
 struct IndexWriter::Impl {
   sql::Db db;
@@ -43,18 +23,14 @@ struct IndexWriter::Impl {
   schema::Counters counters;
   bool in_txn = false;
 
-  SlotTable slot_of;  // (field, term) -> slot in `terms`
   codec::TextCompressor compressor;
-  // Scratch reused for every document (no allocation per document).
-  std::vector<std::pair<std::string_view, std::uint32_t>> by_term;  // (term, position)
-  std::vector<std::uint32_t> doc_positions;
-  // A deque: growing it never copies the batch's millions of term buffers
-  // (a vector's reallocation briefly held them twice, well past the batch).
-  std::deque<TermBuf> terms;
-  std::vector<PendingDoc> pending;
+  PostingBatch batch;
   std::map<std::uint32_t, std::string> dirty_norms;  // chunk -> bytes
-  std::size_t batch_estimate = 0;
   DocId first_pending = 0;  // first doc id of the batch (0: none yet)
+  // Flush scratch, reused for every term and document.
+  codec::Block block_out;
+  std::string pos_blob;
+  std::vector<codec::ForwardList> per_field;
 
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
@@ -67,7 +43,12 @@ struct IndexWriter::Impl {
   Status remove_docs_of(std::int64_t file_id);
   Status add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns);
   Status flush();
-  Status write_term(TermBuf& t, TermId id, bool had_blocks);
+  Status write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run, Field field, TermId id,
+                    bool had_blocks);
+  // The batch's memory, by allocation, with the flush's own (see PostingBatch::bytes).
+  std::size_t batch_bytes() const {
+    return batch.bytes() + dirty_norms.size() * codec::kNormsPerChunk * codec::kNormEntryBytes;
+  }
   Result<std::string*> norms_chunk(std::uint32_t chunk);
 };
 
@@ -196,7 +177,7 @@ std::vector<PageStart> page_map(const std::vector<std::uint32_t>& offsets, const
 Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns) {
   DocId id = static_cast<DocId>(counters.next_doc_id++);
   if (first_pending == 0) first_pending = id;
-  PendingDoc pd{id, {}};
+  batch.begin_document(id);
   std::array<std::uint32_t, kFieldCount> len{};
   const std::string* text[kFieldCount] = {&d.title, &d.body};
   for (Field f : kAllFields) {
@@ -211,43 +192,8 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
       q_put_meta.bind_blob(5, map);  // empty: not paged
       LODE_RETURN_IF_ERROR(q_put_meta.run());
     }
-    // Group this field's tokens by term: a stable sort keeps positions ascending.
-    by_term.clear();
-    for (auto& t : analyzed.tokens) by_term.emplace_back(t.term, t.position);
-    std::stable_sort(by_term.begin(), by_term.end(),
-                     [](const auto& a, const auto& b) { return a.first < b.first; });
-    doc_positions.clear();
-    for (std::size_t i = 0; i < by_term.size(); ++i) {
-      doc_positions.push_back(by_term[i].second);
-      if (i + 1 < by_term.size() && by_term[i + 1].first == by_term[i].first) continue;
-      std::string_view term = by_term[i].first;
-      const std::uint64_t h = SlotTable::hash(static_cast<unsigned char>(f), term);
-      std::uint32_t slot = slot_of.find(h, [&](std::uint32_t s) { return terms[s].field == f && terms[s].term == term; });
-      if (slot == SlotTable::kNone) {
-        slot = static_cast<std::uint32_t>(terms.size());
-        slot_of.insert(h, slot);
-        terms.push_back(TermBuf{f, std::string(term), {}, {}, {}, {}, {}});
-        // The buffer, its four vectors' first allocations (a malloc chunk of
-        // 32 bytes each), the term, and its dictionary cells.
-        batch_estimate += sizeof(TermBuf) + 4 * 32 + term.size() + 32;
-      }
-      TermBuf& tb = terms[slot];
-      auto tf = static_cast<std::uint32_t>(doc_positions.size());
-      // Memory counted as allocated (capacity; vectors double): four vectors
-      // of 4-byte values grow together, and the positions.
-      const std::size_t before = tb.positions.capacity() + 16 * tb.docs.capacity();
-      tb.docs.push_back(id);
-      tb.tfs.push_back(tf);
-      tb.lengths.push_back(len[fi]);
-      codec::encode_positions(tb.positions, doc_positions);
-      tb.pos_end.push_back(static_cast<std::uint32_t>(tb.positions.size()));
-      batch_estimate += tb.positions.capacity() + 16 * tb.docs.capacity() - before;
-      pd.slots.emplace_back(slot, tf);
-      doc_positions.clear();
-    }
+    LODE_RETURN_IF_ERROR(batch.add_field(f, analyzed.tokens));
   }
-  batch_estimate += 8 * pd.slots.size() + 64;
-  pending.push_back(std::move(pd));
 
   LODE_RETURN_IF_ERROR(q_insert_doc.bind(1, std::int64_t{id}).bind(2, file_id).bind(3, d.external_id)
                            .bind(4, d.title).bind(5, d.kind).bind(6, std::int64_t{len[0]})
@@ -264,7 +210,8 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
 
 // Appends a term's batch postings after its existing last block, refilling
 // that block if it is not full, so blocks stay dense across batches.
-Status IndexWriter::Impl::write_term(TermBuf& t, TermId id, bool had_blocks) {
+Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run,
+                                     Field field, TermId id, bool had_blocks) {
   codec::Block block;
   std::string positions;
   std::vector<std::uint32_t> old_pos_end;
@@ -292,30 +239,29 @@ Status IndexWriter::Impl::write_term(TermBuf& t, TermId id, bool had_blocks) {
     LODE_RETURN_IF_ERROR(s);
   }
   // Unified view: old docs (from the partial block) then the batch's docs.
-  std::size_t n_old = block.docs.size();
-  std::size_t total = n_old + t.docs.size();
-  auto doc_at = [&](std::size_t i) { return i < n_old ? block.docs[i] : t.docs[i - n_old]; };
-  auto tf_at = [&](std::size_t i) { return i < n_old ? block.tfs[i] : t.tfs[i - n_old]; };
-  auto pos_range = [&](std::size_t i) -> std::string_view {
-    if (i < n_old) {
-      std::uint32_t b = i == 0 ? 0 : old_pos_end[i - 1];
-      return std::string_view(positions).substr(b, old_pos_end[i] - b);
-    }
-    std::size_t j = i - n_old;
-    std::uint32_t b = j == 0 ? 0 : t.pos_end[j - 1];
-    return std::string_view(t.positions).substr(b, t.pos_end[j] - b);
-  };
+  const std::size_t n_old = block.docs.size();
+  const std::size_t total = n_old + run.size();
   for (std::size_t start = 0; start < total; start += kBlockSize) {
-    std::size_t end = std::min(total, start + kBlockSize);
-    codec::Block out;
-    std::string pos_blob;
+    const std::size_t end = std::min(total, start + kBlockSize);
+    codec::Block& out = block_out;
+    out.docs.clear();
+    out.tfs.clear();
+    pos_blob.clear();
     std::uint32_t max_tf = 0, min_len = start == 0 && n_old > 0 ? old_min_len : UINT32_MAX;
     for (std::size_t i = start; i < end; ++i) {
-      out.docs.push_back(doc_at(i));
-      out.tfs.push_back(tf_at(i));
-      max_tf = std::max(max_tf, tf_at(i));
-      if (i >= n_old) min_len = std::min(min_len, t.lengths[i - n_old]);
-      pos_blob.append(pos_range(i));
+      if (i < n_old) {
+        out.docs.push_back(block.docs[i]);
+        out.tfs.push_back(block.tfs[i]);
+        const std::uint32_t b = i == 0 ? 0 : old_pos_end[i - 1];
+        pos_blob.append(std::string_view(positions).substr(b, old_pos_end[i] - b));
+      } else {
+        const PostingBatch::Posting& p = run[i - n_old];
+        out.docs.push_back(p.doc);
+        out.tfs.push_back(runs.tf(p));
+        min_len = std::min(min_len, batch.length(p.doc, field));
+        batch.append_positions(pos_blob, runs, p);
+      }
+      max_tf = std::max(max_tf, out.tfs.back());
     }
     LODE_RETURN_IF_ERROR(q_put_block.bind(1, id).bind(2, std::int64_t{out.docs.front()})
                              .bind(3, std::int64_t{out.docs.back()}).bind(4, static_cast<std::int64_t>(out.docs.size()))
@@ -323,7 +269,7 @@ Status IndexWriter::Impl::write_term(TermBuf& t, TermId id, bool had_blocks) {
                              .bind_blob(7, codec::encode_block(out)).run());
     LODE_RETURN_IF_ERROR(q_put_positions.bind(1, id).bind(2, std::int64_t{out.docs.front()}).bind_blob(3, pos_blob).run());
   }
-  counters.postings += t.docs.size();
+  counters.postings += run.size();
   return Status();
 }
 
@@ -334,31 +280,43 @@ Status IndexWriter::Impl::flush() {
   TermId max_before = 0;
   if (q_max_term.step()) max_before = q_max_term.i64(0);
   q_max_term.reset();
+  std::vector<TermId> id_of(batch.term_count());
   std::vector<std::pair<TermId, std::uint32_t>> order;  // (term id, slot)
-  order.reserve(terms.size());
-  for (std::uint32_t slot = 0; slot < terms.size(); ++slot) {
-    auto& t = terms[slot];
-    std::int64_t cf = 0;
-    for (auto tf : t.tfs) cf += tf;
-    auto df = static_cast<std::int64_t>(t.docs.size());
-    q_upsert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).bind(3, df).bind(4, cf);
+  order.reserve(batch.term_count());
+  for (std::uint32_t slot : batch.id_order()) {
+    const PostingBatch::Term& t = batch.term(slot);
+    const auto df = static_cast<std::int64_t>(t.df);
+    q_upsert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).bind(3, df)
+        .bind(4, static_cast<std::int64_t>(t.cf));
     auto row = sql::one_row(q_upsert_term, "term upsert returned no row");
     if (!row) return row.status();
     if (q_upsert_term.i64(1) == df) ++counters.terms;  // df was 0 before this batch
-    order.emplace_back(q_upsert_term.i64(0), slot);
+    id_of[slot] = q_upsert_term.i64(0);
+    order.emplace_back(id_of[slot], slot);
   }
-  std::vector<TermId> id_of(terms.size());
-  for (auto& [id, slot] : order) id_of[slot] = id;
   // 2. Postings, in term id order for B-tree locality.
   std::sort(order.begin(), order.end());
-  for (auto& [id, slot] : order) LODE_RETURN_IF_ERROR(write_term(terms[slot], id, id <= max_before));
+  std::vector<std::uint32_t> slots(order.size());
+  for (std::size_t k = 0; k < order.size(); ++k) slots[k] = order[k].second;
+  {
+    const PostingBatch::Runs runs = batch.group(slots);
+    for (std::size_t k = 0, begin = 0; k < order.size(); begin = runs.end[k++])
+      LODE_RETURN_IF_ERROR(write_term(runs, {runs.postings.get() + begin, runs.end[k] - begin},
+                                      batch.term(slots[k]).field, order[k].first, order[k].first <= max_before));
+  }
   // 3. Forward index of the batch's documents.
-  for (auto& pd : pending) {
-    std::vector<codec::ForwardList> per_field(kFieldCount);
-    for (auto& [slot, tf] : pd.slots)
-      per_field[static_cast<std::size_t>(terms[slot].field)].emplace_back(id_of[slot], tf);
-    for (auto& l : per_field) std::sort(l.begin(), l.end());
-    LODE_RETURN_IF_ERROR(q_put_fwd.bind(1, std::int64_t{pd.id}).bind_blob(2, codec::encode_forward(per_field)).run());
+  per_field.resize(kFieldCount);
+  for (std::size_t d = 0; d < batch.documents(); ++d) {
+    for (auto& l : per_field) l.clear();
+    for (std::size_t r = batch.doc(d).first, end = batch.records_end(d); r < end; ++r) {
+      const PostingBatch::Record& rec = batch.record(r);
+      per_field[static_cast<std::size_t>(batch.term(rec.slot()).field)].emplace_back(id_of[rec.slot()], rec.tf());
+    }
+    // Ids are unique within a field: ordering by id alone is enough.
+    for (auto& l : per_field)
+      std::sort(l.begin(), l.end(), [](const auto& a, const auto& b) { return a.first < b.first; });
+    LODE_RETURN_IF_ERROR(
+        q_put_fwd.bind(1, std::int64_t{batch.doc(d).id}).bind_blob(2, codec::encode_forward(per_field)).run());
   }
   // 4. Norms and counters.
   for (auto& [chunk, data] : dirty_norms)
@@ -366,11 +324,8 @@ Status IndexWriter::Impl::flush() {
   LODE_RETURN_IF_ERROR(schema::store_counters(db, counters));
   LODE_RETURN_IF_ERROR(db.exec("COMMIT"));
   in_txn = false;
-  slot_of.clear();
-  terms.clear();
-  pending.clear();
+  batch.clear();
   dirty_norms.clear();
-  batch_estimate = 0;
   first_pending = 0;
   return Status();
 }
@@ -475,8 +430,8 @@ Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentI
     ++m.counters.files;
   }
   for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(file_id, d, file.mtime_ns));
-  bool by_size = m.batch_estimate >= m.options.batch_bytes;
-  bool by_count = m.options.batch_documents != 0 && m.pending.size() >= m.options.batch_documents;
+  bool by_size = m.batch_bytes() >= m.options.batch_bytes;
+  bool by_count = m.options.batch_documents != 0 && m.batch.documents() >= m.options.batch_documents;
   if (by_size || by_count) return m.flush();
   return Status();
 }
