@@ -50,9 +50,9 @@ struct Analyzer::Impl {
   analysis::StemCache cache{kStemCacheEntries};
   std::string scratch;
 
-  const analysis::StemCache::Entry& lookup(std::string_view folded) {
+  analysis::StemCache::Entry lookup(std::string_view folded) {
     return cache.get(folded, [this](std::string_view w) {
-      return analysis::StemCache::Entry{std::string(stemmer.stem(w)), stopwords.contains(w)};
+      return analysis::StemCache::Made{std::string(stemmer.stem(w)), stopwords.contains(w)};
     });
   }
 };
@@ -96,9 +96,9 @@ Analyzer::Analyzed Analyzer::analyze(std::string_view text, std::uint32_t first_
     void word(std::string_view folded, std::size_t begin, std::size_t end) override {
       const std::uint32_t p = position_++;
       if (folded.empty() || folded.size() > kMaxWordBytes) return;  // takes a position only
-      const analysis::StemCache::Entry& e = impl_.lookup(folded);
+      const analysis::StemCache::Entry e = impl_.lookup(folded);
       if (e.stopword) return;
-      out_.tokens.push_back(Token{e.term, p, static_cast<std::uint32_t>(begin),
+      out_.tokens.push_back(Token{std::string(e.term), p, static_cast<std::uint32_t>(begin),
                                   static_cast<std::uint32_t>(end)});
     }
     std::uint32_t position() const { return position_; }

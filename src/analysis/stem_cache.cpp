@@ -2,33 +2,49 @@
 #include "analysis/stem_cache.h"
 
 #include <algorithm>
-#include <utility>
 
 namespace lode::analysis {
 
-const StemCache::Entry& StemCache::insert(std::uint64_t h, std::string_view word, Entry entry) {
-  if (items_.size() >= capacity_) {
-    items_.clear();
-    std::fill(slots_.begin(), slots_.end(), 0);
+StemCache::Entry StemCache::insert(std::uint64_t h, std::uint32_t tag, std::string_view word, const Made& made) {
+  if (size_ >= capacity_) {
+    std::fill(slots_.begin(), slots_.end(), Slot{});
+    long_.clear();
+    size_ = 0;
   }
-  // Keep the table at most half full so probes stay short.
-  if ((items_.size() + 1) * 2 > slots_.size()) grow();
-  items_.push_back(Item{std::string(word), std::move(entry)});
-  place(h, items_.size() - 1);
-  return items_.back().entry;
+  // At most three quarters full: linear probes stay short, and the next
+  // slot is the next cache line, which the hardware fetches ahead.
+  if ((size_ + 1) * 4 > slots_.size() * 3) grow();
+  Slot& s = free_slot(h);
+  s.tag = tag;
+  s.stopword = made.stopword;
+  if (word.size() + made.term.size() <= kInline && word.size() < kLong) {
+    s.key_len = static_cast<std::uint8_t>(word.size());
+    s.term_len = static_cast<std::uint8_t>(made.term.size());
+    std::memcpy(s.bytes, word.data(), word.size());
+    std::memcpy(s.bytes + word.size(), made.term.data(), made.term.size());
+  } else {
+    s.key_len = kLong;
+    const std::size_t i = long_.size();
+    long_.emplace_back(std::string(word), made.term);
+    std::memcpy(s.bytes, &i, sizeof i);
+  }
+  ++size_;
+  return entry(s);
 }
 
-void StemCache::place(std::uint64_t h, std::size_t item_index) {
+StemCache::Slot& StemCache::free_slot(std::uint64_t h) {
   std::size_t i = h & mask_;
-  while (slots_[i] != 0) i = (i + 1) & mask_;
-  slots_[i] = ((h >> 32) << 32) | (item_index + 1);
+  while (slots_[i].tag != 0) i = (i + 1) & mask_;
+  return slots_[i];
 }
 
 void StemCache::grow() {
-  const std::size_t size = std::max<std::size_t>(1024, slots_.size() * 2);
-  slots_.assign(size, 0);
+  std::vector<Slot> old = std::move(slots_);
+  const std::size_t size = std::max<std::size_t>(1024, old.size() * 2);
+  slots_.assign(size, Slot{});
   mask_ = size - 1;
-  for (std::size_t k = 0; k < items_.size(); ++k) place(hash(items_[k].key), k);
+  for (const Slot& s : old)
+    if (s.tag != 0) free_slot(hash(key(s))) = s;
 }
 
 }  // namespace lode::analysis
