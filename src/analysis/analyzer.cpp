@@ -1,5 +1,6 @@
 // Analyzer: segmentation -> folding -> stopwords -> stemming (lode/analysis.h).
 #include <algorithm>
+#include <cstring>
 #include <string>
 #include <unordered_set>
 #include <utility>
@@ -17,6 +18,9 @@ using analysis::WordSink;
 
 // Up to ~100k distinct words: a few MB, and most text's vocabulary fits.
 constexpr std::size_t kStemCacheEntries = 100'000;
+// Words a stem cache slot is prefetched ahead of its lookup (common practice:
+// a few lookups' worth of memory latency).
+constexpr std::size_t kLookupAhead = 8;
 
 struct StringHash {
   using is_transparent = void;
@@ -50,8 +54,8 @@ struct Analyzer::Impl {
   analysis::StemCache cache{kStemCacheEntries};
   std::string scratch;
 
-  analysis::StemCache::Entry lookup(std::string_view folded) {
-    return cache.get(folded, [this](std::string_view w) {
+  analysis::StemCache::Entry lookup(std::string_view folded, std::uint64_t hash) {
+    return cache.get(folded, hash, [this](std::string_view w) {
       return analysis::StemCache::Made{std::string(stemmer.stem(w)), stopwords.contains(w)};
     });
   }
@@ -89,6 +93,9 @@ Analyzer::~Analyzer() = default;
 const AnalyzerOptions& Analyzer::options() const { return impl_->options; }
 
 Analyzer::Analyzed Analyzer::analyze(std::string_view text, std::uint32_t first_position) {
+  // Words wait in a short queue so that each one's cache slot is prefetched
+  // a few words before it is looked up (the lookup is otherwise a cache
+  // miss per word); tokens still come out in text order.
   class IndexSink final : public WordSink {
    public:
     IndexSink(Impl& impl, Analyzed& out, std::uint32_t first)
@@ -96,23 +103,48 @@ Analyzer::Analyzed Analyzer::analyze(std::string_view text, std::uint32_t first_
     void word(std::string_view folded, std::size_t begin, std::size_t end) override {
       const std::uint32_t p = position_++;
       if (folded.empty() || folded.size() > kMaxWordBytes) return;  // takes a position only
-      const analysis::StemCache::Entry e = impl_.lookup(folded);
-      if (e.stopword) return;
-      out_.tokens.push_back(Token{std::string(e.term), p, static_cast<std::uint32_t>(begin),
-                                  static_cast<std::uint32_t>(end)});
+      if (queued_ == kLookupAhead) emit();
+      Pending& w = queue_[(head_ + queued_++) % kLookupAhead];
+      std::memcpy(w.bytes, folded.data(), folded.size());
+      w.size = static_cast<std::uint8_t>(folded.size());
+      w.hash = analysis::StemCache::hash(folded);
+      w.position = p;
+      w.begin = static_cast<std::uint32_t>(begin);
+      w.end = static_cast<std::uint32_t>(end);
+      impl_.cache.prefetch(w.hash);
+    }
+    // Looks up the words still queued.
+    void finish() {
+      while (queued_ > 0) emit();
     }
     std::uint32_t position() const { return position_; }
 
    private:
+    struct Pending {
+      char bytes[kMaxWordBytes];
+      std::uint8_t size;
+      std::uint64_t hash;
+      std::uint32_t position, begin, end;
+    };
+    void emit() {
+      const Pending& w = queue_[head_];
+      head_ = (head_ + 1) % kLookupAhead;
+      --queued_;
+      const analysis::StemCache::Entry e = impl_.lookup(std::string_view(w.bytes, w.size), w.hash);
+      if (!e.stopword) out_.tokens.push_back(Token{std::string(e.term), w.position, w.begin, w.end});
+    }
     Impl& impl_;
     Analyzed& out_;
     std::uint32_t position_;
+    Pending queue_[kLookupAhead];
+    std::size_t head_ = 0, queued_ = 0;
   };
 
   Analyzed out;
   out.tokens.reserve(text.size() / 6 + 4);  // English prose: ~1 term per 6-10 bytes
   IndexSink sink(*impl_, out, first_position);
   analysis::segment(text, *impl_->icu, sink, impl_->scratch);
+  sink.finish();
   out.word_count = sink.position() - first_position;
   return out;
 }

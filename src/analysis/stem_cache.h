@@ -44,7 +44,13 @@ class StemCache {
   // The entry for `word`, computed by `make(word) -> Made` on a miss.
   template <typename Make>
   Entry get(std::string_view word, Make&& make) {
-    const std::uint64_t h = hash(word);
+    return get(word, hash(word), make);
+  }
+
+  // The same with the word's hash(), after prefetch(hash) a few words
+  // earlier: the slot's cache line is then (usually) already loaded.
+  template <typename Make>
+  Entry get(std::string_view word, std::uint64_t h, Make&& make) {
     const std::uint32_t tag = static_cast<std::uint32_t>(h >> 32) | 1u;  // 0 marks an empty slot
     if (!slots_.empty()) {
       for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
@@ -58,6 +64,20 @@ class StemCache {
   }
 
   std::size_t size() const { return size_; }
+
+  // FNV-1a over the bytes, then a final mix so both halves are usable
+  // (low bits pick the slot, high bits are the stored tag).
+  static std::uint64_t hash(std::string_view s) {
+    std::uint64_t h = 0xcbf29ce484222325ULL;
+    for (const char c : s) h = (h ^ static_cast<unsigned char>(c)) * 0x100000001b3ULL;
+    h ^= h >> 29;
+    h *= 0xbf58476d1ce4e5b9ULL;
+    return h ^ (h >> 32);
+  }
+  // Starts loading the slot where a word of hash `h` is looked up first.
+  void prefetch(std::uint64_t h) const {
+    if (!slots_.empty()) __builtin_prefetch(&slots_[h & mask_]);
+  }
 
  private:
   static constexpr std::size_t kInline = 56;
@@ -81,16 +101,6 @@ class StemCache {
     std::size_t i;
     std::memcpy(&i, s.bytes, sizeof i);
     return i;
-  }
-
-  // FNV-1a over the bytes, then a final mix so both halves are usable
-  // (low bits pick the slot, high bits are the stored tag).
-  static std::uint64_t hash(std::string_view s) {
-    std::uint64_t h = 0xcbf29ce484222325ULL;
-    for (const char c : s) h = (h ^ static_cast<unsigned char>(c)) * 0x100000001b3ULL;
-    h ^= h >> 29;
-    h *= 0xbf58476d1ce4e5b9ULL;
-    return h ^ (h >> 32);
   }
 
   Entry insert(std::uint64_t h, std::uint32_t tag, std::string_view word, const Made& made);
