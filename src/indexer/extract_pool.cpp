@@ -47,24 +47,34 @@ void ExtractPool::work(std::stop_token stop) {
     }
     if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
     const std::size_t bytes = held_bytes(out);
+    bool wanted = false;
     {
       std::lock_guard lock(mu_);
       done_[i] = std::move(out);
       waiting_bytes_ += bytes;
+      wanted = i == awaited_;  // the consumer waits for this one
     }
-    cv_.notify_all();
+    if (wanted) cv_.notify_all();
   }
 }
 
 ReadOutcome ExtractPool::take(std::size_t i) {
   std::unique_lock lock(mu_);
-  cv_.wait(lock, [&] { return done_[i].has_value(); });
+  if (!done_[i]) {
+    awaited_ = i;
+    if (i >= next_) cv_.notify_all();  // not started yet: make sure a worker is awake to start it
+    cv_.wait(lock, [&] { return done_[i].has_value(); });
+    awaited_ = kNone;
+  }
   ReadOutcome out = std::move(*done_[i]);
   done_[i].reset();
   waiting_bytes_ -= held_bytes(out);
   taken_ = i + 1;
+  // Wake the workers only once the read-ahead is half used up: waking one
+  // per taken file made them trade places file by file, a futex call each.
+  const bool room = next_ - taken_ <= ahead_ / 2 && waiting_bytes_ <= ahead_bytes_ / 2;
   lock.unlock();
-  cv_.notify_all();
+  if (room) cv_.notify_all();
   return out;
 }
 

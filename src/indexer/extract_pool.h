@@ -56,6 +56,8 @@ class ExtractPool {
   std::vector<std::optional<ReadOutcome>> done_;
   std::size_t next_ = 0;   // next job to hand to a worker
   std::size_t taken_ = 0;  // jobs the consumer has taken
+  static constexpr std::size_t kNone = static_cast<std::size_t>(-1);
+  std::size_t awaited_ = kNone;  // the job the consumer is waiting for
   std::vector<std::jthread> workers_;
 };
 
