@@ -129,6 +129,21 @@ double smart_tf_bound(char letter, double tf, double length, double log_base) {
 
 }  // namespace
 
+// For 'l' tf with 'n' idf (lnc, the default), the other L - tf words of a
+// field of length L weigh at least as much as one word of tf L - tf: with
+// g(x) = (1 + log x)^2, concave for x >= 1 and g(1) = 1 >= g'(1) when the log
+// base is at least e^2, g is subadditive over the other words' tfs. So
+// norm^2 >= g(tf) + g(L - tf), and a word's share is at most
+// sqrt(g(tf) / (g(tf) + g(L - tf))), rising with tf and falling with L.
+// Any other weighting: 1.
+double Scorer::cosine_share_bound(double tf, double length) const {
+  const SmartWeighting& w = options_.smart;
+  constexpr double kE2 = 7.38905609893065;  // e^2
+  if (w.doc_tf != 'l' || w.doc_idf != 'n' || w.log_base < kE2 || length <= tf) return 1.0;
+  const double a = smart_tf('l', tf, 0, 0, 0, w.log_base), b = smart_tf('l', length - tf, 0, 0, 0, w.log_base);
+  return a / std::sqrt(a * a + b * b);
+}
+
 // Every bound is monotone: up in tf, down in length; a field holding a term
 // tf times is at least tf long, which keeps the bounds finite.
 double Scorer::bound(std::size_t i, double tf, double length) const {
@@ -147,7 +162,7 @@ double Scorer::bound(std::size_t i, double tf, double length) const {
   }
   // A cosine-normalised weight is a unit vector's component: at most 1.
   const SmartWeighting& w = options_.smart;
-  if (w.doc_norm == 'c') return fw * t.query_weight;
+  if (w.doc_norm == 'c') return fw * t.query_weight * cosine_share_bound(tf, length);
   const double doc_idf = smart_idf(w.doc_idf, static_cast<double>(stats_.documents), static_cast<double>(t.df), w.log_base);
   return fw * t.query_weight * smart_tf_bound(w.doc_tf, tf, length, w.log_base) * doc_idf;
 }

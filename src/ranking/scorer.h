@@ -50,6 +50,8 @@ class Scorer {
   Status group_fields();
   // Bound for tf <= `tf` and field length >= `length`.
   double bound(std::size_t i, double tf, double length) const;
+  // Bound of a cosine-normalised document weight (<= 1) for those tf and length.
+  double cosine_share_bound(double tf, double length) const;
   double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
 
   IndexReader& reader_;
