@@ -62,7 +62,7 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   auto searcher = Searcher::create(**reader);
   REQUIRE(searcher.ok());
 
-  std::vector<SearchOptions> models(6);
+  std::vector<SearchOptions> models(7);
   models[1].fields = FieldScoring::kSum;
   models[2].bm25 = {2.0, 1.0};  // b = 1: length norms reach 0 for empty titles
   models[3].model = Model::kTfIdf;  // lnc.ltc, the TF-IDF default
@@ -70,6 +70,8 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   models[4].smart = SmartWeighting::parse("nnn.ntc").value();
   models[5].model = Model::kTfIdf;
   models[5].smart = SmartWeighting::parse("rtn.ltc").value();
+  models[6].model = Model::kTfIdf;  // lnc with natural logs: the tighter lnc bound must not apply
+  models[6].smart.log_base = 2.718281828459045;
 
   int pruned = 0, queries = 0;
   std::uint64_t scored_pruned = 0, scored_all = 0;
