@@ -51,14 +51,25 @@ struct IndexReader::Impl {
     });
   }
 
+  // The last chunk used, remembered: a posting walk asks for neighbouring
+  // documents, mostly of one chunk. (Map nodes do not move on insert.)
+  static constexpr std::uint32_t kNoChunk = ~std::uint32_t{0};
+  std::uint32_t last_chunk = kNoChunk;
+  const std::string* last_data = nullptr;
+
   const std::string& chunk(std::uint32_t c) {
+    if (c == last_chunk) return *last_data;
     auto it = norms.find(c);
-    if (it != norms.end()) return it->second;
-    std::string data;
-    q_norms.bind(1, std::int64_t{c});
-    if (q_norms.step()) data = std::string(q_norms.blob(0));
-    q_norms.reset();
-    return norms.emplace(c, std::move(data)).first->second;
+    if (it == norms.end()) {
+      std::string data;
+      q_norms.bind(1, std::int64_t{c});
+      if (q_norms.step()) data = std::string(q_norms.blob(0));
+      q_norms.reset();
+      it = norms.emplace(c, std::move(data)).first;
+    }
+    last_chunk = c;
+    last_data = &it->second;
+    return it->second;
   }
 };
 
@@ -109,6 +120,8 @@ Result<IndexReader::ReadScope> IndexReader::begin() {
   m.q_version.reset();
   if (version != m.data_version) {
     m.norms.clear();
+    m.last_chunk = Impl::kNoChunk;
+    m.last_data = nullptr;
     m.data_version = version;
   }
   return scope;

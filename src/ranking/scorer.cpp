@@ -45,8 +45,11 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
 }
 
 // Terms of one word in several fields form a group; its df counts the live
-// documents in the union of the fields' postings (merged here, once per query).
+// documents in the union of the fields' postings: |A| + |B| - |A and B|, with
+// each field's live df from the index and the overlap found by walking the
+// shorter list (titles are short) and seeking in the longer one.
 Status Scorer::group_fields() {
+  static_assert(kFieldCount == 2, "the union below is of two fields");
   std::vector<std::string> words;
   for (auto& t : terms_) {
     auto it = std::find(words.begin(), words.end(), t.term);
@@ -55,29 +58,21 @@ Status Scorer::group_fields() {
   }
   group_x_.assign(words.size(), 0);
   for (std::size_t g = 0; g < words.size(); ++g) {
-    std::vector<std::unique_ptr<PostingCursor>> cursors;
     std::vector<ScoringTerm*> members;
     for (auto& t : terms_)
-      if (t.group == g && t.info) {
-        members.push_back(&t);
-        cursors.push_back(reader_.postings(*t.info));
-      }
+      if (t.group == g && t.info) members.push_back(&t);
     if (members.size() < 2) continue;  // one field: its own df is the union
-    std::uint64_t df = 0;
-    while (true) {
-      DocId doc = 0;
-      bool any = false;
-      for (auto& c : cursors)
-        if (c->valid() && (!any || c->doc() < doc)) {
-          doc = c->doc();
-          any = true;
-        }
-      if (!any) break;
-      for (auto& c : cursors)
-        if (c->valid() && c->doc() == doc) c->next();
-      if (reader_.live(doc)) ++df;
+    if (members[0]->info->df > members[1]->info->df) std::swap(members[0], members[1]);
+    auto shorter = reader_.postings(*members[0]->info), longer = reader_.postings(*members[1]->info);
+    std::uint64_t both = 0;
+    for (; shorter->valid(); shorter->next()) {
+      longer->seek(shorter->doc());
+      if (!longer->valid()) break;
+      if (longer->doc() == shorter->doc() && reader_.live(shorter->doc())) ++both;
     }
-    for (auto& c : cursors) LODE_RETURN_IF_ERROR(c->status());
+    LODE_RETURN_IF_ERROR(shorter->status());
+    LODE_RETURN_IF_ERROR(longer->status());
+    const std::uint64_t df = members[0]->info->df + members[1]->info->df - both;
     for (ScoringTerm* t : members) t->df = df;
   }
   return Status();
