@@ -7,11 +7,8 @@
 namespace lode::codec {
 
 void put_varint(std::string& out, std::uint64_t v) {
-  while (v >= 0x80) {
-    out.push_back(static_cast<char>((v & 0x7f) | 0x80));
-    v >>= 7;
-  }
-  out.push_back(static_cast<char>(v));
+  char buf[10];
+  out.append(buf, static_cast<std::size_t>(put_varint(buf, v) - buf));
 }
 
 bool Reader::varint(std::uint64_t& v) {

@@ -16,7 +16,16 @@ struct ZSTD_CCtx_s;  // zstd.h stays out of this header
 
 namespace lode::codec {
 
-// LEB128 unsigned varint, at most 10 bytes for 64 bits.
+// LEB128 unsigned varint, at most 10 bytes for 64 bits: written at `p`
+// (returns the end), or appended to `out`.
+inline char* put_varint(char* p, std::uint64_t v) {
+  while (v >= 0x80) {
+    *p++ = static_cast<char>((v & 0x7f) | 0x80);
+    v >>= 7;
+  }
+  *p++ = static_cast<char>(v);
+  return p;
+}
 void put_varint(std::string& out, std::uint64_t v);
 
 // A bounds-checked reader over a blob.

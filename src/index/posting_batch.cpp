@@ -91,13 +91,8 @@ Status PostingBatch::add_field(Field f, const std::vector<Token>& tokens) {
       ++multi_;
       std::uint32_t prev = 0;
       for (std::uint32_t k = begin; k < end; ++k) {
-        std::uint32_t v = grouped_[k] - prev;
+        p = codec::put_varint(p, grouped_[k] - prev);
         prev = grouped_[k];
-        while (v >= 0x80) {
-          *p++ = static_cast<char>((v & 0x7f) | 0x80);
-          v >>= 7;
-        }
-        *p++ = static_cast<char>(v);
       }
     }
     begin = end;
