@@ -78,6 +78,25 @@ Status Scorer::group_fields() {
   return Status();
 }
 
+namespace {
+
+// BM25's saturation of a (weighted, length-normalised) frequency x > 0.
+double saturate(double x, double k1) { return x * (k1 + 1.0) / (x + k1); }
+
+// SMART document tf weight's largest value for tf <= `tf` and length >= `length`:
+// 'a' and 'b' never exceed 1, 'L' divides by 1 + log(avg tf) >= 1, 'r' is a share.
+double smart_tf_bound(char letter, double tf, double length, double log_base) {
+  switch (letter) {
+    case 'a':
+    case 'b': return 1.0;
+    case 'L': return smart_tf('l', tf, 0, 0, 0, log_base);
+    case 'r': return std::min(1.0, tf / length);
+    default: return smart_tf(letter, tf, 0, 0, 0, log_base);
+  }
+}
+
+}  // namespace
+
 // BM25F: per group, x = sum of w_f * tf_f / B_f, one saturation; each entry
 // gets the share of its group's part that its field brought to x.
 double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out) {
@@ -98,7 +117,7 @@ double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std
     const ScoringTerm& t = terms_[i];
     const double x = group_x_[t.group];
     const double fw = options_.field_weight[static_cast<std::size_t>(t.field)];
-    const double tf_part = norm[i] / x * (x * (k1 + 1.0) / (x + k1));
+    const double tf_part = norm[i] / x * saturate(x, k1);
     const double contribution = fw * t.query_weight * t.idf * tf_part;
     total += contribution;
     if (out)
@@ -107,22 +126,6 @@ double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std
   }
   return total;
 }
-
-namespace {
-
-// SMART document tf weight's largest value for tf <= `tf` and length >= `length`:
-// 'a' and 'b' never exceed 1, 'L' divides by 1 + log(avg tf) >= 1, 'r' is a share.
-double smart_tf_bound(char letter, double tf, double length, double log_base) {
-  switch (letter) {
-    case 'a':
-    case 'b': return 1.0;
-    case 'L': return smart_tf('l', tf, 0, 0, 0, log_base);
-    case 'r': return std::min(1.0, tf / length);
-    default: return smart_tf(letter, tf, 0, 0, 0, log_base);
-  }
-}
-
-}  // namespace
 
 // For 'l' tf with 'n' idf (lnc, the default), the other L - tf words of a
 // field of length L weigh at least as much as one word of tf L - tf: with
@@ -151,9 +154,9 @@ double Scorer::bound(std::size_t i, double tf, double length) const {
     if (options_.fields == FieldScoring::kSum) return fw * t.query_weight * t.idf * bm25_tf_part(tf, length, avg, options_.bm25);
     // BM25F: an entry's share w*tf/B / x of its group's qtf * idf * sat(x)
     // is at most qtf * idf * sat(w*tf/B), since sat(x)/x falls as x grows.
+    // (B > 0: length >= tf >= 1.)
     const double x = fw * tf / bm25_length_norm(length, avg, options_.bm25.b);
-    const double k1 = options_.bm25.k1;
-    return x > 0 ? t.query_weight * t.idf * (k1 + 1.0) / (1.0 + k1 / x) : 0;
+    return x > 0 ? t.query_weight * t.idf * saturate(x, options_.bm25.k1) : 0;
   }
   // A cosine-normalised weight is a unit vector's component: at most 1.
   const SmartWeighting& w = options_.smart;
