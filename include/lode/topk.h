@@ -54,6 +54,12 @@ struct ScoredDoc {
   std::vector<std::uint32_t> tfs;  // per term, as passed to TopKModel::score
 };
 
+// The ranking order: a ranks above b with a higher score, or an equal score
+// and a lower doc id (the document indexed first).
+inline bool ranks_above(const ScoredDoc& a, const ScoredDoc& b) {
+  return a.score != b.score ? a.score > b.score : a.doc < b.doc;
+}
+
 struct TopKResult {
   std::vector<ScoredDoc> ranked;  // best first; ties by lower doc id
   std::uint64_t matched = 0;      // admitted documents scored

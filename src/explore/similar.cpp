@@ -34,13 +34,6 @@ Result<DocId> resolve_document(IndexReader& reader, std::string_view name) {
 
 namespace {
 
-struct Scored {
-  double score;
-  DocId doc;
-};
-bool better(const Scored& a, const Scored& b) { return a.score != b.score ? a.score > b.score : a.doc < b.doc; }
-
-
 Status describe(VectorSource& src, const SparseVector& source, const SparseVector& target, std::size_t n,
                 SimilarHit& hit) {
   SparseVector shares;
@@ -125,15 +118,14 @@ Result<SimilarResults> find_similar(VectorSource& src, const SparseVector& sourc
   }
   auto found = top_k(cursors, model, o.candidates, false);
   if (!found) return found.status();
-  std::vector<Scored> pool;
-  for (auto& c : found->ranked) pool.push_back({c.score, c.doc});
+  std::vector<ScoredDoc>& pool = found->ranked;
   out.candidates = pool.size();
   for (auto& c : pool) {
     auto v = src.document(c.doc);
     if (!v) return v.status();
     c.score = cosine(source, *v);
   }
-  explore::keep_top(pool, o.top, better);
+  explore::keep_top(pool, o.top, ranks_above);
   for (auto& c : pool) {
     if (c.score <= 0) break;
     SimilarHit hit;

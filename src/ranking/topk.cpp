@@ -9,12 +9,10 @@
 namespace lode {
 namespace {
 
-// a ranks above b: higher score, then lower doc id. As a priority_queue
-// comparator it keeps the worst kept document on top, ready to be replaced.
+// ranks_above as a priority_queue comparator: the worst kept document is
+// on top, ready to be replaced.
 struct Better {
-  bool operator()(const ScoredDoc& a, const ScoredDoc& b) const {
-    return a.score != b.score ? a.score > b.score : a.doc < b.doc;
-  }
+  bool operator()(const ScoredDoc& a, const ScoredDoc& b) const { return ranks_above(a, b); }
 };
 
 // Relative slack before a bound is trusted to prune: covers the rounding of
