@@ -28,17 +28,14 @@ TEST_CASE("Cranfield: BM25 MAP and nDCG@10 over all 225 queries stay at their me
   CHECK(queries->size() == 225);
   auto qrels = read_qrels(LODE_TEST_DATA "/cranfield/qrels.txt");
   REQUIRE(qrels.ok());
-  auto reader = IndexReader::open(index);
-  REQUIRE(reader.ok());
-  auto searcher = Searcher::create(**reader);
-  REQUIRE(searcher.ok());
+  OpenIndex idx = open_index(index);
   SearchOptions o;
   o.top = 1000;
   o.snippets = false;
   o.breakdown = false;
   Run run;
   for (auto& q : *queries) {
-    auto r = (*searcher)->search(q.text, o);
+    auto r = idx.searcher->search(q.text, o);
     REQUIRE_MESSAGE(r.ok(), r.status().to_string());
     for (auto& h : r->hits) run[q.id].push_back(RunEntry{h.external_id, h.score});
   }

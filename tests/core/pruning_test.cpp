@@ -57,10 +57,7 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   TempDir dir;
   const std::string path = dir.str("p.sqlite");
   build_index(path, skewed_corpus(rng, 4000), AnalyzerOptions{"none", false});
-  auto reader = IndexReader::open(path);
-  REQUIRE(reader.ok());
-  auto searcher = Searcher::create(**reader);
-  REQUIRE(searcher.ok());
+  OpenIndex idx = open_index(path);
 
   std::vector<SearchOptions> models(7);
   models[1].fields = FieldScoring::kSum;
@@ -87,8 +84,8 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
       CAPTURE(o.top);
       SearchOptions all = o;
       all.count_all = true;
-      auto fast = (*searcher)->search(q, o);
-      auto full = (*searcher)->search(q, all);
+      auto fast = idx.searcher->search(q, o);
+      auto full = idx.searcher->search(q, all);
       REQUIRE(fast.ok());
       REQUIRE(full.ok());
       CHECK(full->matched_exact);
@@ -123,16 +120,13 @@ TEST_CASE("pruned retrieval keeps the lower doc id among equal scores") {
   TempDir dir;
   const std::string path = dir.str("t.sqlite");
   build_index(path, docs, AnalyzerOptions{"none", false});
-  auto reader = IndexReader::open(path);
-  REQUIRE(reader.ok());
-  auto searcher = Searcher::create(**reader);
-  REQUIRE(searcher.ok());
+  OpenIndex idx = open_index(path);
   SearchOptions o;
   o.top = 7;
   o.snippets = false;
-  auto fast = (*searcher)->search("amber falls", o);
+  auto fast = idx.searcher->search("amber falls", o);
   o.count_all = true;
-  auto full = (*searcher)->search("amber falls", o);
+  auto full = idx.searcher->search("amber falls", o);
   REQUIRE(fast.ok());
   REQUIRE(full.ok());
   REQUIRE(fast->hits.size() == 7);

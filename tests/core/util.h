@@ -89,6 +89,19 @@ inline std::string run(const std::string& cmd, int* rc = nullptr) {
   return out;
 }
 
+// An index opened for searching; the searcher goes before the reader it uses.
+struct OpenIndex {
+  std::unique_ptr<IndexReader> reader;
+  std::unique_ptr<Searcher> searcher;
+};
+inline OpenIndex open_index(const std::string& path) {
+  auto reader = IndexReader::open(path);
+  REQUIRE_MESSAGE(reader.ok(), reader.status().to_string());
+  auto searcher = Searcher::create(**reader);
+  REQUIRE_MESSAGE(searcher.ok(), searcher.status().to_string());
+  return OpenIndex{std::move(reader).value(), std::move(searcher).value()};
+}
+
 // Scores of every hit of `query` keyed by external id.
 inline std::map<std::string, double> scores_of(IndexReader& reader, const std::string& query,
                                                SearchOptions options) {
