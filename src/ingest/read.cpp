@@ -181,8 +181,11 @@ void cap_text(std::vector<Document>& docs, std::int64_t max_bytes, std::vector<s
     }
     d.body.resize(ingest::cut_utf8(d.body, left > d.title.size() ? left - d.title.size() : 0).size());
     while (!d.page_starts.empty() && d.page_starts.back() > d.body.size()) d.page_starts.pop_back();
-    warnings.push_back("extracted text cut at the limit of " + std::to_string(max_bytes) + " bytes (raise it with --max-text-mb)" +
-                       (i + 1 < docs.size() ? "; " + std::to_string(docs.size() - i - 1) + " documents dropped" : ""));
+    std::string warning = "extracted text cut at the limit of " + std::to_string(max_bytes) +
+                          " bytes (raise it with --max-text-mb)";
+    if (const std::size_t dropped = docs.size() - i - 1; dropped > 0)
+      warning += "; " + std::to_string(dropped) + (dropped == 1 ? " document" : " documents") + " dropped";
+    warnings.push_back(std::move(warning));
     docs.resize(i + 1);
     return;
   }

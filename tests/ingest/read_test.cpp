@@ -153,6 +153,26 @@ TEST_CASE("files above max_file_bytes are refused with both sizes") {
   CHECK(read_ok(p, o).documents.size() == 1);
 }
 
+TEST_CASE("extracted text past max_text_bytes is cut at a character and later records are dropped") {
+  TempDir d;
+  // Three records of 10 bytes of text each ("é" is 2 bytes).
+  const std::string p = d.write("dump.jsonl", "{\"id\": \"a\", \"text\": \"aaaaaaaaaa\"}\n"
+                                              "{\"id\": \"b\", \"text\": \"ééééé\"}\n"
+                                              "{\"id\": \"c\", \"text\": \"cccccccccc\"}\n");
+  ReadOptions o;
+  o.max_text_bytes = 15;
+  const auto r = read_ok(p, o);
+  REQUIRE(r.documents.size() == 2);
+  CHECK(r.documents[0].body == "aaaaaaaaaa");
+  CHECK(r.documents[1].body == "éé");  // 5 bytes left: two whole characters
+  REQUIRE(r.warnings.size() == 1);
+  CHECK(r.warnings[0].find("limit of 15 bytes") != std::string::npos);
+  CHECK(r.warnings[0].find("--max-text-mb") != std::string::npos);
+  CHECK(r.warnings[0].find("1 document dropped") != std::string::npos);
+  o.max_text_bytes = 0;  // no limit
+  CHECK(read_ok(p, o).documents.size() == 3);
+}
+
 TEST_CASE("content hash: XXH3-128 of the file bytes in canonical lowercase hex") {
   TempDir d;
   // Published value: python-xxhash xxh3_128_hexdigest(struct.pack('<B', 42)),
