@@ -83,6 +83,15 @@ TEST_CASE("Browser: search, breakdown, model switch, paging and the reader in he
   REQUIRE(browser.wait_for(tab, std::string(kReady) + " && new URLSearchParams(location.search).get('k1') === '0'"));
   CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == api_docs(c, {{"q", query}, {"k1", "0"}}));
 
+  // Pruned retrieval left the count a lower bound: the page says "at least"
+  // and still offers the next page.
+  auto counted = body_json(get(c, "/api/v1/search", {{"q", query}, {"k1", "0"}}));
+  REQUIRE(counted["matched_exact"] == false);
+  const std::string status = browser.eval(tab, "document.getElementById('status').textContent");
+  CHECK(status.find("of at least " + std::to_string(counted["matched"].get<int>()) + " matching") != std::string::npos);
+  CHECK(browser.eval(tab, "document.getElementById('page-of').textContent") == "page 1");
+  CHECK(browser.eval(tab, "document.getElementById('next').disabled") == false);
+
   // Paging: the next page starts at rank 11.
   browser.eval(tab, "document.getElementById('next').click()");
   REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.querySelector('.hit .rank').textContent === '11'"));
