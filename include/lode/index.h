@@ -150,6 +150,18 @@ class IndexWriter {
   // Adds (or replaces) `file` and its documents. Documents with no words are
   // still recorded (they can be listed but never match).
   Status put_file(const FileRecord& file, const std::vector<DocumentInput>& documents);
+  // put_file() in parts, for a file too large to hold whole (a JSON Lines
+  // dump of millions of records): begin_file() drops the file's old documents
+  // and records `file`; add_documents() adds the next part; finish_file()
+  // records the file's final size, mtime, hash and kind. A batch may commit
+  // between parts, so readers can see part of the file. Call begin_file() with
+  // size -1 and an empty hash: if the run stops before finish_file(), the next
+  // run sees a size and hash that match nothing and reads the file again.
+  // REQUIRES for add_documents/finish_file: a begin_file() or put_file() since
+  // the last remove/rename/touch, for the same path (InvalidArgument otherwise).
+  Status begin_file(const FileRecord& file);
+  Status add_documents(const std::vector<DocumentInput>& documents);
+  Status finish_file(const FileRecord& file);
   // Records a new size/mtime/root for a file whose content is unchanged
   // (same hash), without touching its documents. NotFound if not held.
   Status touch_file(const FileRecord& file);

@@ -36,7 +36,9 @@ struct IndexRunOptions {
   ReadOptions read;
   // Remove indexed files under a root that the crawl no longer finds.
   bool remove_missing = true;
-  // Polled between files; returning true commits what is done and stops.
+  // Polled between files, and between the parts of a JSON Lines file read
+  // in parts; returning true commits what is done and stops (a file stopped
+  // in parts is read again by the next run).
   std::function<bool()> cancelled;
   // Extraction threads; 0 = one per core (std::thread::hardware_concurrency).
   unsigned jobs = 0;
@@ -48,6 +50,10 @@ struct IndexRunOptions {
   // writer fed (it, not extraction, is the bottleneck; bench/README.md).
   std::size_t read_ahead = 64;
   std::size_t read_ahead_bytes = std::size_t{16} << 20;
+  // Bytes of a large JSON Lines file read per part (ReadOptions::
+  // stream_jsonl_bytes says which files): thousands of records a part, small
+  // beside the writer's batch.
+  std::size_t stream_part_bytes = std::size_t{8} << 20;
 };
 
 struct IndexProgress {

@@ -27,6 +27,12 @@ struct IndexWriter::Impl {
   PostingBatch batch;
   std::map<std::uint32_t, std::string> dirty_norms;  // chunk -> bytes
   DocId first_pending = 0;  // first doc id of the batch (0: none yet)
+  // The file begin_file() opened for add_documents() (id 0: none).
+  struct OpenFile {
+    std::int64_t id = 0;
+    std::string path;
+    std::int64_t mtime_ns = 0;
+  } open_file;
   // Flush scratch, reused for every term and document.
   codec::Block block_out;
   std::string pos_blob;
@@ -410,7 +416,13 @@ Result<std::vector<FileRecord>> IndexWriter::files_with_prefix(const std::string
 }
 
 Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentInput>& documents) {
+  LODE_RETURN_IF_ERROR(begin_file(file));
+  return add_documents(documents);
+}
+
+Status IndexWriter::begin_file(const FileRecord& file) {
   auto& m = *impl_;
+  m.open_file = {};
   LODE_RETURN_IF_ERROR(m.begin());
   m.q_file.bind(1, file.path);
   std::int64_t file_id = 0;
@@ -429,15 +441,35 @@ Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentI
     file_id = m.db.last_insert_rowid();
     ++m.counters.files;
   }
-  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(file_id, d, file.mtime_ns));
+  m.open_file = {file_id, file.path, file.mtime_ns};
+  return Status();
+}
+
+Status IndexWriter::add_documents(const std::vector<DocumentInput>& documents) {
+  auto& m = *impl_;
+  if (m.open_file.id == 0) return Status::InvalidArgument("add_documents: no file begun");
+  LODE_RETURN_IF_ERROR(m.begin());  // the last part may have committed
+  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(m.open_file.id, d, m.open_file.mtime_ns));
   bool by_size = m.batch_bytes() >= m.options.batch_bytes;
   bool by_count = m.options.batch_documents != 0 && m.batch.documents() >= m.options.batch_documents;
   if (by_size || by_count) return m.flush();
   return Status();
 }
 
+Status IndexWriter::finish_file(const FileRecord& file) {
+  auto& m = *impl_;
+  if (m.open_file.id == 0 || m.open_file.path != file.path)
+    return Status::InvalidArgument(file.path + ": finish_file without begin_file");
+  LODE_RETURN_IF_ERROR(m.begin());
+  LODE_RETURN_IF_ERROR(m.q_update_file.bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns)
+                           .bind(4, file.hash).bind(5, file.kind).bind(6, m.open_file.id).run());
+  m.open_file = {};
+  return Status();
+}
+
 Status IndexWriter::touch_file(const FileRecord& file) {
   auto& m = *impl_;
+  m.open_file = {};
   LODE_RETURN_IF_ERROR(m.begin());
   auto q = m.db.prepare("UPDATE files SET root=?, size=?, mtime_ns=? WHERE path=?");
   if (!q) return q.status();
@@ -448,6 +480,7 @@ Status IndexWriter::touch_file(const FileRecord& file) {
 
 Status IndexWriter::remove_file(const std::string& path) {
   auto& m = *impl_;
+  m.open_file = {};
   auto rec = file(path);
   if (!rec) return rec.status();
   if (!rec->has_value()) return Status::NotFound(path + ": not in the index");
@@ -466,6 +499,7 @@ Status IndexWriter::remove_file(const std::string& path) {
 Status IndexWriter::rename_file(const std::string& old_path, const FileRecord& file, const std::string& old_id,
                                 const std::string& new_id) {
   auto& m = *impl_;
+  m.open_file = {};
   auto taken = this->file(file.path);
   if (!taken) return taken.status();
   if (taken->has_value()) return Status::InvalidArgument(file.path + ": already in the index (rename target)");

@@ -41,11 +41,24 @@ void ExtractPool::work(std::stop_token stop) {
     }
     const ReadJob& job = jobs_[i];
     ReadOutcome out;
-    if (!job.rename_hashes.empty()) {
+    if (job.stream) {
       auto hash = hash_file(job.path, options_);
-      if (hash.ok() && job.rename_hashes.count(*hash)) out.renamed_hash = *hash;
+      if (hash.ok() && job.rename_hashes.count(*hash)) {
+        out.renamed_hash = *hash;
+      } else if (hash.ok()) {
+        ReadResult hashed;
+        hashed.content_hash = std::move(*hash);
+        out.read = std::move(hashed);
+      } else {
+        out.read = hash.status();
+      }
+    } else {
+      if (!job.rename_hashes.empty()) {
+        auto hash = hash_file(job.path, options_);
+        if (hash.ok() && job.rename_hashes.count(*hash)) out.renamed_hash = *hash;
+      }
+      if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
     }
-    if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
     const std::size_t bytes = held_bytes(out);
     bool wanted = false;
     {

@@ -21,10 +21,15 @@ struct ReadJob {
   // Content hashes of files that vanished with this file's size: when the
   // file's hash is one of these it is a rename and is not extracted.
   std::set<std::string> rename_hashes;
+  // A large JSON Lines file the writer thread reads itself with JsonlStream:
+  // the worker only hashes it.
+  bool stream = false;
 };
 
 struct ReadOutcome {
   std::string renamed_hash;            // set when the file is a rename (read is then empty)
+  // Unless renamed: for a stream job, the content hash (ok) or why the file
+  // could not be hashed; otherwise the extracted file or why it failed.
   std::optional<Result<ReadResult>> read;
 };
 

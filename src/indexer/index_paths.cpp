@@ -2,6 +2,7 @@
 // extract in parallel, apply on this thread, commit.
 #include <chrono>
 #include <filesystem>
+#include <future>
 #include <map>
 #include <set>
 #include <thread>
@@ -42,6 +43,19 @@ bool under_problem(const std::string& path, const std::vector<CrawlProblem>& pro
   return false;
 }
 
+std::vector<DocumentInput> inputs_of(std::vector<Document>& documents, const std::string& path,
+                                     const std::string& rel) {
+  std::vector<DocumentInput> docs;
+  docs.reserve(documents.size());
+  for (auto& d : documents) {
+    DocumentInput in{indexer::document_id(d.external_id, path, rel, d.kind), std::move(d.title),
+                     std::move(d.body), std::move(d.kind), std::move(d.author), d.date, d.pages,
+                     std::move(d.page_starts)};
+    docs.push_back(std::move(in));
+  }
+  return docs;
+}
+
 class Run {
  public:
   Run(IndexWriter& w, const IndexRunOptions& o, const std::function<void(const IndexProgress&)>& progress)
@@ -49,7 +63,9 @@ class Run {
   Result<IndexReport> go(const std::vector<std::string>& roots);
 
  private:
-  Status apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old);
+  Status apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old, bool stream);
+  Status apply_stream(const FileInfo& info, const std::string& hash, const std::optional<FileRecord>& old);
+  void count_file(const FileRecord& rec, std::size_t documents, bool had_old);
   Status fail(const std::string& path, const Status& why, bool had_old);
   Status store_problems(const std::string& path, std::vector<RecordedProblem> problems);
 
@@ -58,6 +74,7 @@ class Run {
   const std::function<void(const IndexProgress&)>& progress_;
   std::vector<std::string> roots_;
   IndexReport report_;
+  IndexProgress prog_;
   std::set<std::string> problem_paths_;  // paths with problems recorded before this run
   std::set<std::string> recorded_;       // paths whose problems this run rewrote
   // Vanished files by size, for rename detection; erased when claimed.
@@ -86,7 +103,81 @@ Status Run::fail(const std::string& path, const Status& why, bool had_old) {
   return Status();
 }
 
-Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old) {
+void Run::count_file(const FileRecord& rec, std::size_t documents, bool had_old) {
+  auto& kind = report_.by_kind[rec.kind];
+  ++kind.files;
+  kind.documents += documents;
+  kind.bytes += static_cast<std::uint64_t>(rec.size);
+  report_.documents += documents;
+  ++(had_old ? report_.updated : report_.added);
+}
+
+// A large JSON Lines file, read in parts on this thread while the next part
+// is read on another, committed by the writer's batches as they fill.
+Status Run::apply_stream(const FileInfo& info, const std::string& hash, const std::optional<FileRecord>& old) {
+  const std::string root = indexer::root_of(info.path, roots_);
+  FileRecord rec{info.path, root, info.size, info.mtime_ns, hash, "jsonl"};
+  if (old && old->hash == hash) {
+    LODE_RETURN_IF_ERROR(writer_.touch_file(rec));
+    ++report_.unchanged;
+    return Status();
+  }
+  auto stream = JsonlStream::open(info.path, options_.read);
+  if (!stream) return fail(info.path, stream.status(), old.has_value());
+  // Unfinished until finish_file(): no size or hash matches it, so a run
+  // stopped mid-file reads the file again next time.
+  rec.hash.clear();
+  rec.size = -1;
+  LODE_RETURN_IF_ERROR(writer_.begin_file(rec));
+  const std::string rel = indexer::relative_id(info.path, root);
+  JsonlStream& reader = **stream;
+  auto read_part = [&reader, bytes = options_.stream_part_bytes] { return reader.next(bytes); };
+  auto ahead = std::async(std::launch::async, read_part);
+  std::size_t documents = 0;
+  const std::uint64_t bytes_before = prog_.bytes_done;
+  Status failed;
+  for (;;) {
+    auto part = ahead.get();
+    if (!part) {
+      failed = part.status();
+      break;
+    }
+    if (part->empty()) break;
+    if (options_.cancelled && options_.cancelled()) {  // the file stays unfinished: read again next run
+      report_.cancelled = true;
+      return Status();
+    }
+    const std::int64_t read_so_far = reader.bytes_read();  // before the next part starts
+    ahead = std::async(std::launch::async, read_part);
+    auto docs = inputs_of(*part, info.path, rel);
+    documents += docs.size();
+    LODE_RETURN_IF_ERROR(writer_.add_documents(docs));
+    prog_.bytes_done = bytes_before + static_cast<std::uint64_t>(read_so_far);
+    if (progress_) progress_(prog_);
+  }
+  prog_.bytes_done = bytes_before;  // go() adds the whole file
+  if (!failed.ok()) {
+    LODE_RETURN_IF_ERROR(writer_.remove_file(info.path));  // no half-read file stays
+    return fail(info.path, failed, false);
+  }
+  ReadResult done = reader.finish();
+  report_.bytes_read += static_cast<std::uint64_t>(done.size);
+  std::vector<RecordedProblem> warnings;
+  for (auto& w : done.warnings) {
+    report_.warnings.push_back({info.path, w});
+    warnings.push_back(RecordedProblem{info.path, false, w, now_ns()});
+  }
+  LODE_RETURN_IF_ERROR(store_problems(info.path, std::move(warnings)));
+  rec.hash = done.content_hash;
+  rec.size = done.size;
+  rec.mtime_ns = done.mtime_ns;
+  LODE_RETURN_IF_ERROR(writer_.finish_file(rec));
+  count_file(rec, documents, old.has_value());
+  return Status();
+}
+
+Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::optional<FileRecord>& old,
+                  bool stream) {
   const std::string root = indexer::root_of(info.path, roots_);
   if (!out.renamed_hash.empty()) {
     for (auto it = missing_.lower_bound(info.size); it != missing_.end() && it->first == info.size; ++it) {
@@ -104,7 +195,13 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
       return Status();
     }
     // Claimed by an earlier file with the same content: read this one.
-    out.read = read_file(info.path, options_.read);
+    if (stream) {
+      ReadResult hashed;
+      hashed.content_hash = out.renamed_hash;
+      out.read = std::move(hashed);
+    } else {
+      out.read = read_file(info.path, options_.read);
+    }
   }
   Result<ReadResult>& read = *out.read;
   if (!read) return fail(info.path, read.status(), old.has_value());
@@ -113,6 +210,7 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
   std::error_code ec;
   if (!fs::exists(info.path, ec) && !ec)
     return fail(info.path, Status::NotFound("vanished while being indexed"), old.has_value());
+  if (stream) return apply_stream(info, read->content_hash, old);
   report_.bytes_read += static_cast<std::uint64_t>(read->size);
   std::vector<RecordedProblem> warnings;
   for (auto& w : read->warnings) {
@@ -127,22 +225,9 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
     ++report_.unchanged;
     return Status();
   }
-  const std::string rel = indexer::relative_id(info.path, root);
-  std::vector<DocumentInput> docs;
-  docs.reserve(read->documents.size());
-  for (auto& d : read->documents) {
-    DocumentInput in{indexer::document_id(d.external_id, info.path, rel, d.kind), std::move(d.title),
-                     std::move(d.body), std::move(d.kind), std::move(d.author), d.date, d.pages,
-                     std::move(d.page_starts)};
-    docs.push_back(std::move(in));
-  }
+  const auto docs = inputs_of(read->documents, info.path, indexer::relative_id(info.path, root));
   LODE_RETURN_IF_ERROR(writer_.put_file(rec, docs));
-  auto& kind = report_.by_kind[rec.kind];
-  ++kind.files;
-  kind.documents += docs.size();
-  kind.bytes += static_cast<std::uint64_t>(read->size);
-  report_.documents += docs.size();
-  ++(old ? report_.updated : report_.added);
+  count_file(rec, docs.size(), old.has_value());
   return Status();
 }
 
@@ -174,28 +259,29 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
       }
 
   // Decide which files need reading.
-  IndexProgress prog;
   std::vector<std::pair<const FileInfo*, std::optional<FileRecord>>> todo;
   std::vector<ReadJob> jobs;
+  std::vector<bool> streamed;  // per todo entry: a JSON Lines file read in parts
   for (const FileInfo& info : crawled->files) {
-    prog.bytes_total += static_cast<std::uint64_t>(info.size);
+    prog_.bytes_total += static_cast<std::uint64_t>(info.size);
     auto it = held->find(info.path);
     std::optional<FileRecord> old;
     if (it != held->end()) old = it->second;
     if (old && old->size == info.size && old->mtime_ns == info.mtime_ns && old->root == indexer::root_of(info.path, roots_)) {
       ++report_.unchanged;
-      prog.bytes_done += static_cast<std::uint64_t>(info.size);
+      prog_.bytes_done += static_cast<std::uint64_t>(info.size);
       continue;
     }
-    ReadJob job{info.path, {}};
+    ReadJob job{info.path, {}, streams_as_jsonl(info.path, info.size, options_.read)};
     if (!old)
       for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
         job.rename_hashes.insert(m->second.hash);
+    streamed.push_back(job.stream);
     jobs.push_back(std::move(job));
     todo.emplace_back(&info, std::move(old));
   }
-  prog.files_total = crawled->files.size();
-  prog.files_done = crawled->files.size() - todo.size();
+  prog_.files_total = crawled->files.size();
+  prog_.files_done = crawled->files.size() - todo.size();
 
   {
     const unsigned threads = options_.jobs != 0 ? options_.jobs : std::max(1u, std::thread::hardware_concurrency());
@@ -207,16 +293,16 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
         break;
       }
       const FileInfo& info = *todo[i].first;
-      prog.current = info.path;
-      if (progress_) progress_(prog);
-      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), todo[i].second));
-      ++prog.files_done;
-      prog.bytes_done += static_cast<std::uint64_t>(info.size);
+      prog_.current = info.path;
+      if (progress_) progress_(prog_);
+      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), todo[i].second, streamed[i]));
+      ++prog_.files_done;
+      prog_.bytes_done += static_cast<std::uint64_t>(info.size);
     }
   }
   if (progress_) {
-    prog.current = {};
-    progress_(prog);
+    prog_.current = {};
+    progress_(prog_);
   }
 
   if (!report_.cancelled) {

@@ -3,9 +3,11 @@
 // callback instead of by exception; the callback keeps the parser's message so
 // the warning can say what is wrong and where.
 #include <nlohmann/json.hpp>
+#include <xxhash.h>
+
+#include <algorithm>
 
 #include <string>
-#include <unordered_map>
 #include <utility>
 
 #include "ingest/readers.h"
@@ -110,45 +112,102 @@ Record read_record(std::string_view line, const ReadOptions& options) {
 
 }  // namespace
 
-Parsed read_jsonl(std::string_view text, const std::string& path, const ReadOptions& options) {
-  Parsed out;
-  std::size_t bad_lines = 0;
-  std::size_t duplicates = 0;
-  std::string first_duplicate;
-  std::unordered_map<std::string, std::size_t> first_line_of;  // external id -> line number
-  bool any_record_line = false;
-  std::size_t line_no = 0;
+JsonlRecords::JsonlRecords(const std::string& path, const ReadOptions& options) : path_(path), options_(options) {}
+
+std::uint64_t* JsonlRecords::id_cell(std::uint64_t hash) {
+  if (2 * (ids_ + 1) > id_hashes_.size()) {
+    std::vector<std::uint64_t> hashes(std::max<std::size_t>(64, 2 * id_hashes_.size()), 0);
+    std::vector<std::uint32_t> lines(hashes.size(), 0);
+    const std::size_t mask = hashes.size() - 1;
+    for (std::size_t i = 0; i < id_hashes_.size(); ++i) {
+      if (id_hashes_[i] == 0) continue;
+      std::size_t j = id_hashes_[i] & mask;
+      while (hashes[j] != 0) j = (j + 1) & mask;
+      hashes[j] = id_hashes_[i];
+      lines[j] = id_lines_[i];
+    }
+    id_hashes_.swap(hashes);
+    id_lines_.swap(lines);
+  }
+  const std::size_t mask = id_hashes_.size() - 1;
+  std::size_t j = hash & mask;
+  while (id_hashes_[j] != 0 && id_hashes_[j] != hash) j = (j + 1) & mask;
+  return &id_hashes_[j];
+}
+
+void JsonlRecords::bad_line(const std::string& reason) {
+  if (++bad_lines_ <= kMaxLineWarnings) warnings_.push_back("line " + std::to_string(line_no_) + ": " + reason);
+}
+
+void JsonlRecords::skip_line(const std::string& reason) {
+  ++line_no_;
+  any_record_line_ = true;
+  bad_line(reason);
+}
+
+// Ids are kept as 64-bit hashes with their first line, 12 bytes a cell at
+// most half full, whatever the id's length; a false repeat needs a hash
+// collision, about 3 in 10^8 for a file of a million records. Past
+// kMaxCheckedIds the check stops, so memory stays bounded (48 MiB).
+void JsonlRecords::check_id(const std::string& id) {
+  if (ids_ >= kMaxCheckedIds) {
+    unchecked_ = true;
+    return;
+  }
+  std::uint64_t h = XXH3_64bits(id.data(), id.size());
+  h += h == 0;  // 0 marks an empty cell
+  std::uint64_t* cell = id_cell(h);
+  const auto at = static_cast<std::size_t>(cell - id_hashes_.data());
+  if (*cell == 0) {
+    *cell = h;
+    id_lines_[at] = static_cast<std::uint32_t>(std::min<std::size_t>(line_no_, UINT32_MAX));
+    ++ids_;
+  } else if (duplicates_++ == 0) {
+    first_duplicate_ = "id \"" + std::string(cut_utf8(id, kMaxReasonBytes)) + "\" on line " +
+                       std::to_string(line_no_) + " (first seen on line " + std::to_string(id_lines_[at]) + ")";
+  }
+}
+
+void JsonlRecords::add(std::string_view text, std::vector<Document>& out) {
   for (const std::string_view line : split_lines(text)) {
-    ++line_no;
+    ++line_no_;
     if (trim(line).empty()) continue;
-    any_record_line = true;
-    Record rec = read_record(line, options);
+    any_record_line_ = true;
+    Record rec = read_record(line, options_);
     if (!rec.skip_reason.empty()) {
-      if (++bad_lines <= kMaxLineWarnings) {
-        out.warnings.push_back("line " + std::to_string(line_no) + ": " + rec.skip_reason);
-      }
+      bad_line(rec.skip_reason);
       continue;
     }
     Document& doc = rec.doc;
     // A missing (or empty) id falls back to the line's address in the file.
-    if (doc.external_id.empty()) doc.external_id = path + "#" + std::to_string(line_no);
-    const auto [it, inserted] = first_line_of.emplace(doc.external_id, line_no);
-    if (!inserted && duplicates++ == 0) {
-      first_duplicate = "id \"" + std::string(cut_utf8(doc.external_id, kMaxReasonBytes)) +
-                        "\" on line " + std::to_string(line_no) + " (first seen on line " +
-                        std::to_string(it->second) + ")";
-    }
-    out.documents.push_back(std::move(doc));
+    if (doc.external_id.empty()) doc.external_id = path_ + "#" + std::to_string(line_no_);
+    check_id(doc.external_id);
+    out.push_back(std::move(doc));
   }
-  if (bad_lines > kMaxLineWarnings) {
-    out.warnings.push_back(std::to_string(bad_lines - kMaxLineWarnings) + " more bad lines skipped (" +
-                           std::to_string(bad_lines) + " in all)");
+}
+
+std::vector<std::string> JsonlRecords::warnings() const {
+  std::vector<std::string> out = warnings_;
+  if (bad_lines_ > kMaxLineWarnings) {
+    out.push_back(std::to_string(bad_lines_ - kMaxLineWarnings) + " more bad lines skipped (" +
+                  std::to_string(bad_lines_) + " in all)");
   }
-  if (duplicates > 0) {
-    out.warnings.push_back(std::to_string(duplicates) + " duplicate id(s), first " + first_duplicate +
-                           "; every record is kept");
+  if (duplicates_ > 0) {
+    out.push_back(std::to_string(duplicates_) + " duplicate id(s), first " + first_duplicate_ +
+                  "; every record is kept");
   }
-  if (!any_record_line) out.warnings.push_back("empty file");
+  if (unchecked_)
+    out.push_back("repeated ids were looked for among the first " + std::to_string(kMaxCheckedIds) +
+                  " records only");
+  if (!any_record_line_) out.push_back("empty file");
+  return out;
+}
+
+Parsed read_jsonl(std::string_view text, const std::string& path, const ReadOptions& options) {
+  JsonlRecords records(path, options);
+  Parsed out;
+  records.add(text, out.documents);
+  out.warnings = records.warnings();
   return out;
 }
 

@@ -8,12 +8,15 @@
 
 #include <algorithm>
 #include <cerrno>
+#include <cstring>
+#include <memory>
 #include <filesystem>
 #include <system_error>
 
 #include "ingest/decode.h"
 #include "ingest/readers.h"
 #include "ingest/text_util.h"
+#include "lode/analysis.h"
 #include "lode/ingest.h"
 
 namespace lode {
@@ -45,20 +48,56 @@ struct FileBytes {
   std::int64_t mtime_ns = 0;
 };
 
-Result<FileBytes> read_bytes(const std::string& path, std::int64_t max_bytes) {
-  FileDescriptor fd(::open(path.c_str(), O_RDONLY | O_CLOEXEC | O_NONBLOCK));
-  if (fd.get() < 0) {
+struct OpenFile {
+  explicit OpenFile(int raw_fd) : fd(raw_fd) {}
+  FileDescriptor fd;
+  struct stat st {};
+};
+
+// Opens a regular file for reading; errors as read_file's.
+Result<std::unique_ptr<OpenFile>> open_regular(const std::string& path) {
+  auto file = std::make_unique<OpenFile>(::open(path.c_str(), O_RDONLY | O_CLOEXEC | O_NONBLOCK));
+  if (file->fd.get() < 0) {
     const int err = errno;
     if (err == ENOENT || err == ENOTDIR) return Status::NotFound(path + ": no such file");
     return Status::IOError(path + ": " + errno_text(err));
   }
-  struct stat st {};
-  if (::fstat(fd.get(), &st) != 0) {
+  if (::fstat(file->fd.get(), &file->st) != 0) {
     const int err = errno;
     return Status::IOError(path + ": " + errno_text(err));
   }
-  if (S_ISDIR(st.st_mode)) return Status::IOError(path + ": " + errno_text(EISDIR));
-  if (!S_ISREG(st.st_mode)) return Status::Unsupported(path + ": not a regular file");
+  if (S_ISDIR(file->st.st_mode)) return Status::IOError(path + ": " + errno_text(EISDIR));
+  if (!S_ISREG(file->st.st_mode)) return Status::Unsupported(path + ": not a regular file");
+  return file;
+}
+
+// read() that retries on EINTR; the count read, 0 at the end, or IOError.
+Result<std::size_t> read_some(int fd, char* dst, std::size_t want, const std::string& path) {
+  for (;;) {
+    const ssize_t got = ::read(fd, dst, want);
+    if (got >= 0) return static_cast<std::size_t>(got);
+    const int err = errno;
+    if (err != EINTR) return Status::IOError(path + ": " + errno_text(err));
+  }
+}
+
+std::int64_t mtime_of(const struct stat& st) { return std::int64_t{st.st_mtim.tv_sec} * 1000000000 + st.st_mtim.tv_nsec; }
+
+// True when `after` shows the file changed since `before` was taken.
+bool moved(const struct stat& before, const struct stat& after) {
+  return after.st_size != before.st_size || after.st_mtim.tv_sec != before.st_mtim.tv_sec ||
+         after.st_mtim.tv_nsec != before.st_mtim.tv_nsec;
+}
+
+Status changed_while_read(const std::string& path) {
+  return Status::IOError(path + ": changed while being read (size or modification time moved)");
+}
+
+Result<FileBytes> read_bytes(const std::string& path, std::int64_t max_bytes) {
+  auto opened = open_regular(path);
+  if (!opened) return opened.status();
+  const FileDescriptor& fd = (*opened)->fd;
+  const struct stat& st = (*opened)->st;
   const auto size = static_cast<std::int64_t>(st.st_size);
   if (max_bytes > 0 && size > max_bytes) return too_large(path, size, max_bytes);
 
@@ -70,16 +109,11 @@ Result<FileBytes> read_bytes(const std::string& path, std::int64_t max_bytes) {
   for (;;) {
     const bool in_place = have < data.size();
     char* dst = in_place ? data.data() + have : extra;
-    const std::size_t want = in_place ? data.size() - have : sizeof extra;
-    const ssize_t got = ::read(fd.get(), dst, want);
-    if (got < 0) {
-      const int err = errno;
-      if (err == EINTR) continue;
-      return Status::IOError(path + ": " + errno_text(err));
-    }
-    if (got == 0) break;
-    if (!in_place) data.append(extra, static_cast<std::size_t>(got));
-    have += static_cast<std::size_t>(got);
+    auto got = read_some(fd.get(), dst, in_place ? data.size() - have : sizeof extra, path);
+    if (!got) return got.status();
+    if (*got == 0) break;
+    if (!in_place) data.append(extra, *got);
+    have += *got;
     const auto total = static_cast<std::int64_t>(have);
     if (max_bytes > 0 && total > max_bytes) return too_large(path, total, max_bytes);
   }
@@ -87,15 +121,12 @@ Result<FileBytes> read_bytes(const std::string& path, std::int64_t max_bytes) {
   // A writer busy with the file while we read it leaves a torn copy: refuse
   // it now; the next run sees the finished file.
   struct stat after {};
-  if (::fstat(fd.get(), &after) == 0 &&
-      (after.st_size != st.st_size || after.st_mtim.tv_sec != st.st_mtim.tv_sec ||
-       after.st_mtim.tv_nsec != st.st_mtim.tv_nsec || static_cast<std::int64_t>(have) != size))
-    return Status::IOError(path + ": changed while being read (size or modification time moved)");
-  return FileBytes{std::move(data), std::int64_t{st.st_mtim.tv_sec} * 1000000000 + st.st_mtim.tv_nsec};
+  if (::fstat(fd.get(), &after) == 0 && (moved(st, after) || static_cast<std::int64_t>(have) != size))
+    return changed_while_read(path);
+  return FileBytes{std::move(data), mtime_of(st)};
 }
 
-std::string hash_hex(std::string_view bytes) {
-  const XXH128_hash_t h = XXH3_128bits(bytes.data(), bytes.size());
+std::string canonical_hex(XXH128_hash_t h) {
   // The canonical (big-endian) form, as xxhsum and other tools print it.
   XXH128_canonical_t canonical;
   XXH128_canonicalFromHash(&canonical, h);
@@ -108,6 +139,22 @@ std::string hash_hex(std::string_view bytes) {
   }
   return out;
 }
+
+std::string hash_hex(std::string_view bytes) { return canonical_hex(XXH3_128bits(bytes.data(), bytes.size())); }
+
+// XXH3-128 fed piece by piece: the same digest as hash_hex over the whole.
+class StreamHash {
+ public:
+  StreamHash() : state_(XXH3_createState()) { XXH3_128bits_reset(state_.get()); }
+  void add(std::string_view bytes) { XXH3_128bits_update(state_.get(), bytes.data(), bytes.size()); }
+  std::string hex() const { return canonical_hex(XXH3_128bits_digest(state_.get())); }
+
+ private:
+  struct Free {
+    void operator()(XXH3_state_t* s) const { XXH3_freeState(s); }
+  };
+  std::unique_ptr<XXH3_state_t, Free> state_;
+};
 
 enum class Format { kText, kMarkdown, kJsonl, kHtml, kPdf, kZip, kEml, kMbox, kGzip };
 
@@ -211,9 +258,173 @@ Result<ReadResult> read_file(const std::string& path, const ReadOptions& options
 }
 
 Result<std::string> hash_file(const std::string& path, const ReadOptions& options) {
-  Result<FileBytes> file = read_bytes(path, options.max_file_bytes);
-  if (!file.ok()) return file.status();
-  return hash_hex(file->data);
+  // In pieces: a streamed JSON Lines file is never held whole.
+  auto opened = open_regular(path);
+  if (!opened) return opened.status();
+  const struct stat& st = (*opened)->st;
+  const std::int64_t max_bytes = streams_as_jsonl(path, st.st_size, options) ? 0 : options.max_file_bytes;
+  if (max_bytes > 0 && st.st_size > max_bytes) return too_large(path, st.st_size, max_bytes);
+  StreamHash hash;
+  std::string buf(std::size_t{1} << 20, '\0');
+  std::int64_t total = 0;
+  for (;;) {
+    auto got = read_some((*opened)->fd.get(), buf.data(), buf.size(), path);
+    if (!got) return got.status();
+    if (*got == 0) break;
+    hash.add(std::string_view(buf).substr(0, *got));
+    total += static_cast<std::int64_t>(*got);
+    if (max_bytes > 0 && total > max_bytes) return too_large(path, total, max_bytes);
+  }
+  return hash.hex();
+}
+
+bool streams_as_jsonl(const std::string& path, std::int64_t size, const ReadOptions& options) {
+  if (options.stream_jsonl_bytes <= 0 || size <= options.stream_jsonl_bytes) return false;
+  const std::string name = std::filesystem::path(path).filename().string();
+  if (format_of(name, "") != Format::kJsonl) return false;
+  auto opened = open_regular(path);
+  if (!opened) return false;
+  char head[8];
+  auto got = read_some((*opened)->fd.get(), head, sizeof head, path);
+  return got.ok() && format_of(name, std::string_view(head, *got)) == Format::kJsonl;
+}
+
+// --- JsonlStream ---------------------------------------------------------------
+
+struct JsonlStream::Impl {
+  std::string path;
+  ReadOptions options;
+  std::unique_ptr<OpenFile> file;
+  StreamHash hash;
+  ingest::JsonlRecords records;
+  std::string carry;             // the start of a line the last read cut
+  std::int64_t offset = 0;       // file bytes read
+  std::int64_t carry_at = 0;     // file offset of carry[0]
+  bool at_end = false;
+  bool skipping = false;         // inside a line too long to read, up to its '\n'
+  std::size_t replaced = 0;      // invalid UTF-8 sequences replaced so far
+  std::int64_t first_bad = -1;   // file offset of the first
+
+  Impl(std::string p, ReadOptions o, std::unique_ptr<OpenFile> f)
+      : path(std::move(p)), options(std::move(o)), file(std::move(f)), records(path, options) {}
+  std::size_t max_line() const {
+    return options.max_text_bytes > 0 ? static_cast<std::size_t>(options.max_text_bytes) : SIZE_MAX;
+  }
+  // Reads the whole lines of `text` (file offset `at`): UTF-8 repaired, then records.
+  Status take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out);
+};
+
+Status JsonlStream::Impl::take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out) {
+  if (is_valid_utf8(text)) {
+    records.add(text, out);
+    return Status();
+  }
+  Utf8Repair fixed = repair_utf8(text);
+  if (first_bad < 0) first_bad = at + static_cast<std::int64_t>(fixed.first_bad_offset);
+  replaced += fixed.replaced;
+  records.add(fixed.text, out);
+  return Status();
+}
+
+JsonlStream::JsonlStream(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+JsonlStream::~JsonlStream() = default;
+
+Result<std::unique_ptr<JsonlStream>> JsonlStream::open(const std::string& path, const ReadOptions& options) {
+  auto opened = open_regular(path);
+  if (!opened) return opened.status();
+  return std::unique_ptr<JsonlStream>(new JsonlStream(std::make_unique<Impl>(path, options, std::move(*opened))));
+}
+
+std::int64_t JsonlStream::bytes_read() const { return impl_->offset; }
+
+Result<std::vector<Document>> JsonlStream::next(std::size_t slice_bytes) {
+  Impl& m = *impl_;
+  std::vector<Document> out;
+  std::string buf;
+  while (out.empty() && !m.at_end) {
+    buf.resize(std::max<std::size_t>(slice_bytes, 1));
+    auto got = read_some(m.file->fd.get(), buf.data(), buf.size(), m.path);
+    if (!got) return got.status();
+    buf.resize(*got);
+    m.hash.add(buf);
+    std::string_view fresh(buf);
+    std::int64_t fresh_at = m.offset;
+    m.offset += static_cast<std::int64_t>(*got);
+    if (*got == 0) {
+      m.at_end = true;
+      struct stat after {};
+      if (::fstat(m.file->fd.get(), &after) == 0 && (moved(m.file->st, after) || m.offset != m.file->st.st_size))
+        return changed_while_read(m.path);
+    }
+    if (fresh_at == 0) {  // the checks read_file makes at the start of a file
+      const std::size_t sniff = std::min(fresh.size(), ingest::kBinarySniffBytes);
+      if (const void* nul = std::memchr(fresh.data(), '\0', sniff); nul != nullptr)
+        return Status::Unsupported(m.path + ": binary file (NUL byte at offset " +
+                                   std::to_string(static_cast<const char*>(nul) - fresh.data()) + ")");
+      if (fresh.substr(0, 3) == "\xEF\xBB\xBF") {
+        fresh.remove_prefix(3);
+        fresh_at = 3;
+      }
+    }
+    if (m.at_end) {  // a last line with no '\n'
+      if (!m.carry.empty() && !m.skipping) LODE_RETURN_IF_ERROR(m.take_lines(m.carry, m.carry_at, out));
+      m.carry.clear();
+      break;
+    }
+    // Whole lines are read now; a line the read cut waits in `carry`. A line
+    // longer than max_line() is dropped as it streams past, never held.
+    while (!fresh.empty()) {
+      const std::size_t nl = fresh.find('\n');
+      const std::size_t part = nl == std::string_view::npos ? fresh.size() : nl + 1;  // with its '\n'
+      if (!m.skipping && m.carry.size() + part > m.max_line() + 1) {
+        m.records.skip_line("longer than " + std::to_string(m.max_line()) + " bytes (raise it with --max-text-mb)");
+        m.carry.clear();
+        m.skipping = true;
+      }
+      if (nl == std::string_view::npos) {  // the line goes on in the next read
+        if (!m.skipping) {
+          if (m.carry.empty()) m.carry_at = fresh_at;
+          m.carry.append(fresh);
+        }
+        break;
+      }
+      if (m.skipping) {
+        m.skipping = false;
+      } else if (m.carry.empty()) {
+        // Usually: every whole line of the read in one go, when they are
+        // too few bytes together for any one of them to be too long.
+        const std::size_t end = fresh.rfind('\n') + 1;
+        if (end <= m.max_line() + 1) {
+          LODE_RETURN_IF_ERROR(m.take_lines(fresh.substr(0, end), fresh_at, out));
+          fresh.remove_prefix(end);
+          fresh_at += static_cast<std::int64_t>(end);
+          continue;
+        }
+        LODE_RETURN_IF_ERROR(m.take_lines(fresh.substr(0, part), fresh_at, out));
+      } else {
+        m.carry.append(fresh.substr(0, part));
+        LODE_RETURN_IF_ERROR(m.take_lines(m.carry, m.carry_at, out));
+        m.carry.clear();
+      }
+      fresh.remove_prefix(part);
+      fresh_at += static_cast<std::int64_t>(part);
+    }
+  }
+  return out;
+}
+
+ReadResult JsonlStream::finish() {
+  Impl& m = *impl_;
+  ReadResult r;
+  r.content_hash = m.hash.hex();
+  r.size = m.offset;
+  r.mtime_ns = mtime_of(m.file->st);
+  r.warnings = m.records.warnings();
+  if (m.replaced > 0)
+    r.warnings.insert(r.warnings.begin(), "invalid UTF-8 at byte " + std::to_string(m.first_bad) + " (" +
+                                              std::to_string(m.replaced) +
+                                              (m.replaced == 1 ? " sequence replaced)" : " sequences replaced)"));
+  return r;
 }
 
 }  // namespace lode

@@ -4,6 +4,7 @@
 // warnings.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -29,6 +30,43 @@ Parsed read_markdown(std::string_view text, const std::string& path);
 
 // JSON Lines: one document per valid non-blank line.
 Parsed read_jsonl(std::string_view text, const std::string& path, const ReadOptions& options);
+
+// The state of reading one JSON Lines file, fed its lines in order in one
+// piece (read_jsonl) or in slices (JsonlStream): line numbers, bad lines and
+// repeated ids. Memory: 24-48 bytes a record for the repeated-id check, which
+// covers the first kMaxCheckedIds records (at most 48 MiB).
+class JsonlRecords {
+ public:
+  JsonlRecords(const std::string& path, const ReadOptions& options);
+  // Reads the lines of `text` into `out`. REQUIRES: valid UTF-8 ending at a
+  // line end (or at the end of the file).
+  void add(std::string_view text, std::vector<Document>& out);
+  // Counts one line that was not read (too long, say) as a bad line.
+  void skip_line(const std::string& reason);
+  std::size_t lines() const { return line_no_; }
+  // The file's warnings so far: bad lines, repeated ids, "empty file".
+  std::vector<std::string> warnings() const;
+
+ private:
+  static constexpr std::size_t kMaxCheckedIds = std::size_t{1} << 21;
+  void bad_line(const std::string& reason);
+  void check_id(const std::string& id);
+  std::uint64_t* id_cell(std::uint64_t hash);  // the cell holding `hash`, or the empty one it would go in
+
+  std::string path_;
+  const ReadOptions& options_;
+  std::size_t line_no_ = 0;
+  std::size_t bad_lines_ = 0;
+  std::size_t duplicates_ = 0;
+  bool any_record_line_ = false;
+  std::string first_duplicate_;
+  std::vector<std::string> warnings_;
+  // Open addressing over id hashes (0: empty) with each id's first line.
+  std::vector<std::uint64_t> id_hashes_;
+  std::vector<std::uint32_t> id_lines_;  // line numbers past 2^32 - 1 read as that
+  std::size_t ids_ = 0;
+  bool unchecked_ = false;  // records past kMaxCheckedIds went unchecked
+};
 
 // Readers of the raw file bytes. Unlike the text readers they can fail: the
 // status names the file and the reason (see read_file in lode/ingest.h).

@@ -147,3 +147,134 @@ TEST_CASE("cancelling commits what is done and a later run finishes the job") {
 }
 
 }  // namespace
+
+namespace {
+
+// A JSON Lines dump of `n` records; `version` changes some of them.
+std::string records(int n, int version) {
+  std::string out;
+  for (int i = 0; i < n; ++i)
+    out += "{\"id\": \"r" + std::to_string(i) + "\", \"title\": \"record " + std::to_string(i) +
+           "\", \"text\": \"tide table entry " + std::to_string(i % 17) + " for the harbour" +
+           (i % 5 == version % 5 ? " with a storm warning" : "") + "\"}\n";
+  return out;
+}
+
+// Indexes the tree with JSON Lines files above `stream_above` bytes read in
+// parts (0: none) and a writer committing every `batch_documents` documents.
+lode::IndexReport index_parts(const std::string& index, const std::string& tree, std::int64_t stream_above,
+                              std::size_t batch_documents) {
+  lode::WriterOptions w;
+  w.batch_documents = batch_documents;
+  auto writer = lode::IndexWriter::open(index, std::nullopt, w);
+  REQUIRE(writer.ok());
+  lode::IndexRunOptions o;
+  o.read.stream_jsonl_bytes = stream_above;
+  o.stream_part_bytes = 64;
+  auto r = lode::index_paths(**writer, {tree}, o);
+  REQUIRE_MESSAGE(r.ok(), r.status().to_string());
+  return *r;
+}
+
+}  // namespace
+
+TEST_CASE("a JSON Lines file read in parts, committed mid-file, equals one read whole") {
+  Scratch s;
+  const std::string path = s.write("dump.jsonl", records(300, 0));
+  s.write("note.txt", "a note on the harbour storm\n");
+  const std::vector<std::string> queries = {"harbour", "storm warning", "\"tide table entry 3\"", "record"};
+  const std::string whole = s.other("whole.sqlite");
+  auto w = index_parts(whole, s.tree(), 0, 0);
+  auto parts = index_parts(s.index(), s.tree(), 100, 7);  // parts of 64 bytes, commits every 7 records
+  CHECK(parts.added == 2);
+  CHECK(parts.documents == w.documents);
+  CHECK(parts.bytes_read == w.bytes_read);
+  CHECK(parts.by_kind.at("jsonl").documents == 300);
+  compare(snapshot(s.index(), queries), snapshot(whole, queries));
+
+  // Unchanged: nothing read; changed: read again in parts, equal to a fresh index.
+  auto again = index_parts(s.index(), s.tree(), 100, 7);
+  CHECK(again.unchanged == 2);
+  CHECK(again.bytes_read == 0);
+  s.write("dump.jsonl", records(250, 1));
+  auto changed = index_parts(s.index(), s.tree(), 100, 7);
+  CHECK(changed.updated == 1);
+  const std::string fresh = s.other("fresh.sqlite");
+  index_parts(fresh, s.tree(), 0, 0);
+  compare(snapshot(s.index(), queries), snapshot(fresh, queries));
+
+  // A run stopped mid-file (parts committed, the file never finished) is
+  // read again by the next run, and nothing of the stopped run remains.
+  {
+    lode::WriterOptions wo;
+    wo.batch_documents = 2;
+    auto writer = lode::IndexWriter::open(s.index(), std::nullopt, wo);
+    REQUIRE(writer.ok());
+    auto held = (*writer)->file(path);
+    REQUIRE(held.ok());
+    REQUIRE(held->has_value());
+    lode::FileRecord unfinished = **held;
+    unfinished.size = -1;
+    unfinished.hash.clear();
+    REQUIRE((*writer)->begin_file(unfinished).ok());
+    std::vector<lode::DocumentInput> part(5);
+    for (std::size_t i = 0; i < part.size(); ++i) {
+      part[i].external_id = "half" + std::to_string(i);
+      part[i].body = "half read storm";
+      part[i].kind = "jsonl";
+    }
+    REQUIRE((*writer)->add_documents(part).ok());
+    CHECK((*writer)->finish_file(lode::FileRecord{s.file("other.jsonl"), s.tree(), 1, 1, "x", "jsonl"}).code() ==
+          lode::Code::kInvalidArgument);
+  }  // dropped without finish_file() or commit(): what the batches committed stays
+  CHECK(search(s.index(), "half").matched >= 4);
+  auto resumed = index_parts(s.index(), s.tree(), 100, 7);
+  CHECK(resumed.updated == 1);
+  CHECK(search(s.index(), "half").matched == 0);
+  compare(snapshot(s.index(), queries), snapshot(fresh, queries));
+
+  // Cancelled between parts: the parts read so far are committed, the file
+  // is left unfinished, and the next run reads it again in full.
+  s.write("dump.jsonl", records(300, 2));
+  {
+    lode::WriterOptions wo;
+    wo.batch_documents = 7;
+    auto writer = lode::IndexWriter::open(s.index(), std::nullopt, wo);
+    REQUIRE(writer.ok());
+    lode::IndexRunOptions o;
+    o.read.stream_jsonl_bytes = 100;
+    o.stream_part_bytes = 64;
+    o.jobs = 1;
+    int polls = 0;
+    o.cancelled = [&] { return ++polls > 20; };
+    auto r = lode::index_paths(**writer, {s.tree()}, o);
+    REQUIRE(r.ok());
+    CHECK(r->cancelled);
+    CHECK(r->updated == 0);
+  }
+  auto held = lode::IndexReader::open(s.index());
+  REQUIRE(held.ok());
+  {
+    auto scope = (*held)->begin();
+    CHECK((*held)->stats().documents > 1);  // the note and the parts read before the stop
+    CHECK((*held)->stats().documents < 300);
+  }
+  auto finished = index_parts(s.index(), s.tree(), 100, 7);
+  CHECK(finished.updated == 1);
+  const std::string fresh2 = s.other("fresh2.sqlite");
+  index_parts(fresh2, s.tree(), 0, 0);
+  compare(snapshot(s.index(), queries), snapshot(fresh2, queries));
+}
+
+TEST_CASE("the writer refuses parts of a file it has not begun") {
+  Scratch s;
+  auto writer = lode::IndexWriter::open(s.index(), std::nullopt);
+  REQUIRE(writer.ok());
+  CHECK((*writer)->add_documents({lode::DocumentInput{}}).code() == lode::Code::kInvalidArgument);
+  CHECK((*writer)->finish_file(lode::FileRecord{s.file("a.jsonl"), s.tree(), 1, 1, "h", "jsonl"}).code() ==
+        lode::Code::kInvalidArgument);
+  REQUIRE((*writer)->put_file(lode::FileRecord{s.file("a.txt"), s.tree(), 1, 1, "h", "text"}, {}).ok());
+  REQUIRE((*writer)->remove_file(s.file("a.txt")).ok());
+  CHECK((*writer)->add_documents({}).code() == lode::Code::kInvalidArgument);  // the file is gone
+}
+

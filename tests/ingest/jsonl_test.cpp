@@ -1,7 +1,9 @@
 // The JSON Lines reader (through read_file, as callers use it).
 #include <doctest/doctest.h>
 
+#include <fstream>
 #include <string>
+#include <vector>
 
 #include "lode/ingest.h"
 #include "temp_dir.h"
@@ -164,4 +166,128 @@ TEST_CASE("deeply nested or huge lines are handled without crashing") {
   CHECK(r.warnings[0] == "line 1: not a JSON object");
   CHECK(r.warnings[1].rfind("line 2: invalid JSON: ", 0) == 0);
   CHECK(r.warnings[1].size() < 300);  // the parser's message is cut short
+}
+
+namespace {
+
+// Everything JsonlStream gives for `path`, `slice` bytes a read.
+struct Streamed {
+  std::vector<lode::Document> documents;
+  lode::ReadResult finish;
+};
+
+Streamed stream_all(const std::string& path, std::size_t slice, const ReadOptions& o = {}) {
+  auto s = lode::JsonlStream::open(path, o);
+  REQUIRE_MESSAGE(s.ok(), s.status().to_string());
+  Streamed out;
+  for (;;) {
+    auto part = (*s)->next(slice);
+    REQUIRE_MESSAGE(part.ok(), part.status().to_string());
+    if (part->empty()) break;
+    for (auto& d : *part) out.documents.push_back(std::move(d));
+  }
+  out.finish = (*s)->finish();
+  CHECK(out.finish.size == (*s)->bytes_read());
+  return out;
+}
+
+}  // namespace
+
+TEST_CASE("read in slices of any size, a file gives the records, warnings and hash of read_file") {
+  TempDir d;
+  std::string content = "\xEF\xBB\xBF{\"id\": \"a\", \"title\": \"T\\u00e9\", \"text\": \"first r\xC3\xA9sum\xC3\xA9\"}\r\n";
+  content += "\n   \n{\"text\": \"no id here\"}\n";
+  content += "{\"id\": \"b\", \"text\": \"bad \xFF byte\"}\n";
+  content += "not json at all\n";
+  content += "{\"id\": \"a\", \"text\": [\"repeated\", \"id\"]}\n";
+  for (int i = 0; i < 40; ++i) content += "{\"id\": " + std::to_string(100 + i) + ", \"text\": \"filler words " + std::to_string(i) + "\"}\n";
+  content += "{\"id\": \"last\", \"text\": \"no newline at the end\"}";
+  const std::string path = d.write("records.jsonl", content);
+  auto whole = lode::read_file(path, {});
+  REQUIRE(whole.ok());
+  REQUIRE(whole->documents.size() == 45);
+  REQUIRE(whole->warnings.size() == 3);  // invalid UTF-8, the bad line, the repeated id
+  for (std::size_t slice : {std::size_t{1}, std::size_t{2}, std::size_t{7}, std::size_t{64}, std::size_t{1000},
+                            content.size() + 1}) {
+    CAPTURE(slice);
+    const Streamed s = stream_all(path, slice);
+    REQUIRE(s.documents.size() == whole->documents.size());
+    for (std::size_t i = 0; i < s.documents.size(); ++i) {
+      CHECK(s.documents[i].external_id == whole->documents[i].external_id);
+      CHECK(s.documents[i].title == whole->documents[i].title);
+      CHECK(s.documents[i].body == whole->documents[i].body);
+      CHECK(s.documents[i].kind == "jsonl");
+    }
+    CHECK(s.finish.warnings == whole->warnings);
+    CHECK(s.finish.content_hash == whole->content_hash);
+    CHECK(s.finish.size == whole->size);
+    CHECK(s.finish.mtime_ns == whole->mtime_ns);
+    CHECK(s.finish.documents.empty());
+  }
+}
+
+TEST_CASE("a streamed line longer than the text limit is skipped, and the lines after it keep their numbers") {
+  TempDir d;
+  const std::string path = d.write("long.jsonl", "{\"text\": \"short one\"}\n{\"text\": \"" + std::string(500, 'x') +
+                                                     "\"}\n{\"text\": \"after the long line\"}\n");
+  ReadOptions o;
+  o.max_text_bytes = 100;
+  for (std::size_t slice : {std::size_t{3}, std::size_t{64}, std::size_t{4096}}) {
+    CAPTURE(slice);
+    const Streamed s = stream_all(path, slice, o);
+    REQUIRE(s.documents.size() == 2);
+    CHECK(s.documents[0].body == "short one");
+    CHECK(s.documents[1].body == "after the long line");
+    CHECK(s.documents[1].external_id == path + "#3");
+    REQUIRE(s.finish.warnings.size() == 1);
+    CHECK(s.finish.warnings[0] == "line 2: longer than 100 bytes (raise it with --max-text-mb)");
+  }
+}
+
+TEST_CASE("a streamed file is refused as binary, or when it changes while it is read") {
+  TempDir d;
+  auto bin = lode::JsonlStream::open(d.write("bin.jsonl", std::string("{\"text\": \"a\"}\n\0\1\2", 17)), {});
+  REQUIRE(bin.ok());
+  auto part = (*bin)->next(1 << 20);
+  REQUIRE_FALSE(part.ok());
+  CHECK(part.status().code() == lode::Code::kUnsupported);
+  CHECK(part.status().message().find("bin.jsonl: binary file (NUL byte at offset 14)") != std::string::npos);
+
+  const std::string path = d.write("grows.jsonl", "{\"text\": \"one\"}\n{\"text\": \"two\"}\n");
+  auto s = lode::JsonlStream::open(path, {});
+  REQUIRE(s.ok());
+  auto first = (*s)->next(17);
+  REQUIRE(first.ok());
+  CHECK(first->size() == 1);
+  {
+    std::ofstream more(path, std::ios::app);
+    more << "{\"text\": \"three\"}\n";
+  }
+  lode::Status seen;
+  for (int i = 0; i < 10 && seen.ok(); ++i) {
+    auto next = (*s)->next(17);
+    if (!next.ok()) seen = next.status();
+    else if (next->empty()) break;
+  }
+  CHECK(seen.code() == lode::Code::kIOError);
+  CHECK(seen.message() == path + ": changed while being read (size or modification time moved)");
+
+  auto missing = lode::JsonlStream::open(d.path("none.jsonl"), {});
+  REQUIRE_FALSE(missing.ok());
+  CHECK(missing.status().code() == lode::Code::kNotFound);
+}
+
+TEST_CASE("streams_as_jsonl: JSON Lines by name and content, above the size set") {
+  TempDir d;
+  ReadOptions o;
+  o.stream_jsonl_bytes = 10;
+  const std::string big = d.write("a.jsonl", "{\"text\": \"enough bytes\"}\n");
+  CHECK(lode::streams_as_jsonl(big, 26, o));
+  CHECK_FALSE(lode::streams_as_jsonl(big, 10, o));  // not above the size
+  CHECK(lode::streams_as_jsonl(d.write("b.NDJSON", "{\"text\": \"enough bytes\"}\n"), 26, o));
+  CHECK_FALSE(lode::streams_as_jsonl(d.write("c.txt", "{\"text\": \"enough bytes\"}\n"), 26, o));
+  CHECK_FALSE(lode::streams_as_jsonl(d.write("d.jsonl", "\x1f\x8b\x08 gzip inside"), 26, o));  // content wins
+  CHECK_FALSE(lode::streams_as_jsonl(d.path("gone.jsonl"), 26, o));
+  o.stream_jsonl_bytes = 0;
+  CHECK_FALSE(lode::streams_as_jsonl(big, 26, o));
 }
