@@ -45,7 +45,7 @@ inline constexpr std::array<Field, kFieldCount> kAllFields = {Field::kTitle, Fie
 std::string_view field_name(Field f);                        // "title", "body"
 std::optional<Field> parse_field(std::string_view name);     // nullopt if unknown
 
-inline constexpr int kIndexFormatVersion = 2;  // 2: doc_meta, problems
+inline constexpr int kIndexFormatVersion = 3;  // 2: doc_meta, problems; 3: postings in append order
 inline constexpr std::uint32_t kBlockSize = 128;  // documents per postings block
 
 // Settings fixed when an index is created and recorded in it.
@@ -60,6 +60,12 @@ struct WriterOptions {
   std::size_t batch_bytes = std::size_t{256} << 20;
   // Commit at least every this many documents (0 = only by size / on commit()).
   std::size_t batch_documents = 0;
+  // A commit of at most this many distinct terms fills up the partial last
+  // block of each of its terms (dense blocks under many small commits, as
+  // `lode watch` makes); a larger one appends new blocks only, because
+  // refilling would rewrite rows all over the postings table and make a
+  // run's time grow with the square of the corpus (docs/index-format.md).
+  std::size_t refill_max_terms = 4096;
 };
 
 // One file as the index remembers it (for change detection).

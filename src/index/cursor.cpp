@@ -9,7 +9,7 @@ class BlockCursor final : public PostingCursor {
  public:
   BlockCursor(sql::Db& db, TermId term) : db_(db), term_(term) {
     auto q = db.prepare(
-        "SELECT first_doc, last_doc, n, max_tf, min_len, data FROM postings "
+        "SELECT first_doc, last_doc, n, max_tf, min_len, data, block_id FROM postings "
         "WHERE term_id = ? ORDER BY first_doc");
     if (!q) {
       status_ = q.status();
@@ -51,6 +51,7 @@ class BlockCursor final : public PostingCursor {
       auto last = static_cast<DocId>(blocks_.i64(1));
       if (last < target) continue;
       first_doc_ = static_cast<DocId>(blocks_.i64(0));
+      block_id_ = blocks_.i64(6);
       last_doc_ = last;
       auto n = static_cast<std::uint32_t>(blocks_.i64(2));
       max_tf_ = static_cast<std::uint32_t>(blocks_.i64(3));
@@ -77,6 +78,7 @@ class BlockCursor final : public PostingCursor {
   codec::Block block_;
   std::size_t i_ = 0;
   DocId first_doc_ = 0, last_doc_ = 0;
+  std::int64_t block_id_ = 0;
   std::uint32_t max_tf_ = 0, min_len_ = 0;
   bool valid_ = false;
   Status status_;
@@ -87,9 +89,9 @@ class BlockCursor final : public PostingCursor {
 
 Result<std::vector<std::uint32_t>> BlockCursor::positions() {
   if (!positions_loaded_) {
-    auto q = db_.prepare("SELECT data FROM positions WHERE term_id = ? AND first_doc = ?");
+    auto q = db_.prepare("SELECT data FROM positions WHERE block_id = ?");
     if (!q) return q.status();
-    q->bind(1, term_).bind(2, std::int64_t{first_doc_});
+    q->bind(1, block_id_);
     if (!q->step()) {
       if (!q->status().ok()) return q->status();
       return Status::Corruption("positions missing for term " + std::to_string(term_) + " block " +

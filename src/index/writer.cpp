@@ -41,7 +41,7 @@ struct IndexWriter::Impl {
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
   sql::Stmt q_upsert_term, q_max_term, q_update_term, q_last_block, q_get_positions;
-  sql::Stmt q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
+  sql::Stmt q_drop_block, q_drop_positions, q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
   sql::Stmt q_put_meta, q_delete_meta;
 
   Status prepare_all();
@@ -50,7 +50,7 @@ struct IndexWriter::Impl {
   Status add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns);
   Status flush();
   Status write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run, Field field, TermId id,
-                    bool had_blocks);
+                    bool refill);
   // The batch's memory, by allocation, with the flush's own (see PostingBatch::bytes).
   std::size_t batch_bytes() const {
     return batch.bytes() + dirty_norms.size() * codec::kNormsPerChunk * codec::kNormEntryBytes;
@@ -75,10 +75,12 @@ Status IndexWriter::Impl::prepare_all() {
                        "DO UPDATE SET df = df + excluded.df, cf = cf + excluded.cf RETURNING term_id, df"},
       {&q_max_term, "SELECT coalesce(max(term_id), 0) FROM terms"},
       {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ? RETURNING df - ?, df"},
-      {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
-      {&q_get_positions, "SELECT data FROM positions WHERE term_id = ? AND first_doc = ?"},
-      {&q_put_block, "INSERT OR REPLACE INTO postings(term_id, first_doc, last_doc, n, max_tf, min_len, data) VALUES(?,?,?,?,?,?,?)"},
-      {&q_put_positions, "INSERT OR REPLACE INTO positions(term_id, first_doc, data) VALUES(?,?,?)"},
+      {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data, block_id FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
+      {&q_get_positions, "SELECT data FROM positions WHERE block_id = ?"},
+      {&q_drop_block, "DELETE FROM postings WHERE block_id = ?"},
+      {&q_drop_positions, "DELETE FROM positions WHERE block_id = ?"},
+      {&q_put_block, "INSERT INTO postings(term_id, first_doc, last_doc, n, max_tf, min_len, data) VALUES(?,?,?,?,?,?,?)"},
+      {&q_put_positions, "INSERT INTO positions(block_id, data) VALUES(?,?)"},
       {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
       {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
       {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
@@ -214,27 +216,31 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
   return Status();
 }
 
-// Appends a term's batch postings after its existing last block, refilling
-// that block if it is not full, so blocks stay dense across batches.
+// Writes a term's batch postings as new blocks at the table's end. With
+// `refill`, a partly filled last block of the term is first taken back and
+// filled up, so blocks stay dense across small commits.
 Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run,
-                                     Field field, TermId id, bool had_blocks) {
+                                     Field field, TermId id, bool refill) {
   codec::Block block;
   std::string positions;
   std::vector<std::uint32_t> old_pos_end;
   std::uint32_t old_min_len = UINT32_MAX;
-  if (had_blocks) q_last_block.bind(1, id);
-  if (had_blocks && q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
+  if (refill) q_last_block.bind(1, id);
+  if (refill && q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
     auto first = static_cast<DocId>(q_last_block.i64(0));
     auto n = static_cast<std::uint32_t>(q_last_block.i64(1));
     old_min_len = static_cast<std::uint32_t>(q_last_block.i64(3));
+    const std::int64_t old_block = q_last_block.i64(5);
     Status s = codec::decode_block(q_last_block.blob(4), first, n, block);
     q_last_block.reset();
     LODE_RETURN_IF_ERROR(s);
-    q_get_positions.bind(1, id).bind(2, std::int64_t{first});
+    q_get_positions.bind(1, old_block);
     if (q_get_positions.step()) positions = std::string(q_get_positions.blob(0));
     s = q_get_positions.status();
     q_get_positions.reset();
     LODE_RETURN_IF_ERROR(s);
+    LODE_RETURN_IF_ERROR(q_drop_block.bind(1, old_block).run());
+    LODE_RETURN_IF_ERROR(q_drop_positions.bind(1, old_block).run());
     std::vector<std::uint32_t> starts;
     LODE_RETURN_IF_ERROR(codec::split_positions(positions, block.tfs, starts));
     for (std::size_t i = 1; i < starts.size(); ++i) old_pos_end.push_back(starts[i]);
@@ -273,7 +279,7 @@ Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<c
                              .bind(3, std::int64_t{out.docs.back()}).bind(4, static_cast<std::int64_t>(out.docs.size()))
                              .bind(5, std::int64_t{max_tf}).bind(6, std::int64_t{min_len})
                              .bind_blob(7, codec::encode_block(out)).run());
-    LODE_RETURN_IF_ERROR(q_put_positions.bind(1, id).bind(2, std::int64_t{out.docs.front()}).bind_blob(3, pos_blob).run());
+    LODE_RETURN_IF_ERROR(q_put_positions.bind(1, db.last_insert_rowid()).bind_blob(2, pos_blob).run());
   }
   counters.postings += run.size();
   return Status();
@@ -300,15 +306,23 @@ Status IndexWriter::Impl::flush() {
     id_of[slot] = q_upsert_term.i64(0);
     order.emplace_back(id_of[slot], slot);
   }
-  // 2. Postings, in term id order for B-tree locality.
+  // 2. Postings, in term id order.
   std::sort(order.begin(), order.end());
   std::vector<std::uint32_t> slots(order.size());
   for (std::size_t k = 0; k < order.size(); ++k) slots[k] = order[k].second;
   {
+    // A small batch (a watched file saved, a few files changed) refills the
+    // partial last blocks of its terms. A large one only appends: refilling
+    // rewrites a row on another page for nearly every term, so each commit
+    // would rewrite the whole postings table and a run's time would grow with
+    // the square of the corpus. Appending leaves one partial block per term
+    // per large commit instead.
+    const bool refill = order.size() <= options.refill_max_terms;
     const PostingBatch::Runs runs = batch.group(slots);
     for (std::size_t k = 0, begin = 0; k < order.size(); begin = runs.end[k++])
       LODE_RETURN_IF_ERROR(write_term(runs, {runs.postings.get() + begin, runs.end[k] - begin},
-                                      batch.term(slots[k]).field, order[k].first, order[k].first <= max_before));
+                                      batch.term(slots[k]).field, order[k].first,
+                                      refill && order[k].first <= max_before));
   }
   // 3. Forward index of the batch's documents.
   per_field.resize(kFieldCount);

@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include "index/codec.h"
+#include "index/sqlite.h"
 #include "lode/indexer.h"
 #include "util.h"
 
@@ -116,6 +117,48 @@ TEST_CASE("edit, delete and add between runs: the index equals a fresh build of 
   CHECK(a.stats.documents == 4);
   CHECK(a.stats.dead_documents >= 3);
   check_same(a, b);
+}
+
+TEST_CASE("small commits keep blocks dense, large commits append partial blocks, and both rank the same") {
+  // 600 documents that all hold "storm": 5 blocks when dense (4 full + 88).
+  std::vector<std::pair<std::string, std::string>> docs;
+  for (int i = 0; i < 600; ++i) docs.emplace_back("", "storm log entry " + std::to_string(i % 7) + " lamp");
+  TempDir dir;
+  auto blocks_of = [](const std::string& path, const char* term) {
+    auto db = sql::Db::open(path, SQLITE_OPEN_READONLY);
+    REQUIRE(db.ok());
+    auto q = db->prepare(
+        "SELECT count(*), sum(n), max(n) FROM postings WHERE term_id = "
+        "(SELECT term_id FROM terms WHERE field = 1 AND term = ?)");
+    REQUIRE(q.ok());
+    q->bind(1, std::string(term));
+    REQUIRE(q->step());
+    return std::array<std::int64_t, 3>{q->i64(0), q->i64(1), q->i64(2)};
+  };
+  WriterOptions every50;
+  every50.batch_documents = 50;  // 12 commits of a few terms each: under refill_max_terms
+  const std::string dense = dir.str("dense.sqlite");
+  build_index(dense, docs, {}, every50);
+  CHECK(blocks_of(dense, "storm") == std::array<std::int64_t, 3>{5, 600, 128});
+  WriterOptions appending = every50;
+  appending.refill_max_terms = 0;  // as a commit of many terms does
+  const std::string appended = dir.str("appended.sqlite");
+  build_index(appended, docs, {}, appending);
+  CHECK(blocks_of(appended, "storm") == std::array<std::int64_t, 3>{12, 600, 50});
+  check_same(snapshot_of(dense, kVocabulary), snapshot_of(appended, kVocabulary));
+  for (const char* q : {"storm", "\"storm log\"", "lamp +storm"}) {
+    auto a = open_index(dense);
+    auto b = open_index(appended);
+    SearchOptions o;
+    o.top = 1000;
+    auto ra = a.searcher->search(q, o);
+    auto rb = b.searcher->search(q, o);
+    REQUIRE(ra.ok());
+    REQUIRE(rb.ok());
+    CHECK(ra->matched == 600);
+    REQUIRE(ra->hits.size() == rb->hits.size());
+    for (std::size_t i = 0; i < ra->hits.size(); ++i) CHECK(ra->hits[i].doc == rb->hits[i].doc);
+  }
 }
 
 TEST_CASE("many updates of one file keep df, cf and lengths exact") {

@@ -56,7 +56,13 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   std::mt19937 rng(4242);
   TempDir dir;
   const std::string path = dir.str("p.sqlite");
-  build_index(path, skewed_corpus(rng, 4000), AnalyzerOptions{"none", false});
+  // Commits of 300 documents that never refill: each common term's blocks
+  // include a partial one every 300 documents, so block bounds are met on
+  // blocks of every size.
+  WriterOptions appending;
+  appending.batch_documents = 300;
+  appending.refill_max_terms = 0;
+  build_index(path, skewed_corpus(rng, 4000), AnalyzerOptions{"none", false}, appending);
   OpenIndex idx = open_index(path);
 
   std::vector<SearchOptions> models(7);

@@ -65,8 +65,8 @@ inline DocumentInput doc_input(std::string id, std::string title, std::string bo
 
 // Builds an index at `path` holding one file per document (title, body).
 inline void build_index(const std::string& path, const std::vector<std::pair<std::string, std::string>>& docs,
-                        const AnalyzerOptions& analyzer = {}) {
-  auto w = IndexWriter::open(path, IndexSettings{analyzer});
+                        const AnalyzerOptions& analyzer = {}, const WriterOptions& writer = {}) {
+  auto w = IndexWriter::open(path, IndexSettings{analyzer}, writer);
   REQUIRE_MESSAGE(w.ok(), w.status().to_string());
   for (std::size_t i = 0; i < docs.size(); ++i) {
     std::string id = "d" + std::to_string(i + 1);
