@@ -37,10 +37,11 @@ struct IndexWriter::Impl {
   codec::Block block_out;
   std::string pos_blob;
   std::vector<codec::ForwardList> per_field;
+  std::vector<std::vector<std::uint64_t>> fwd_words;  // per field: term id << 32 | tf
 
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
-  sql::Stmt q_upsert_term, q_max_term, q_update_term, q_last_block, q_get_positions;
+  sql::Stmt q_find_term, q_add_term, q_term_df, q_max_term, q_update_term, q_last_block, q_get_positions;
   sql::Stmt q_drop_block, q_drop_positions, q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
   sql::Stmt q_put_meta, q_delete_meta;
 
@@ -71,10 +72,14 @@ Status IndexWriter::Impl::prepare_all() {
       {&q_delete_text, "DELETE FROM doc_text WHERE doc_id = ?"},
       {&q_delete_fwd, "DELETE FROM doc_terms WHERE doc_id = ?"},
       {&q_get_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
-      {&q_upsert_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, ?, ?) ON CONFLICT(field, term) "
-                       "DO UPDATE SET df = df + excluded.df, cf = cf + excluded.cf RETURNING term_id, df"},
+      // Plain statements, not an upsert with RETURNING: SQLite gathers
+      // RETURNING rows in a temporary table, opened and closed per call,
+      // which cost more than the lookup itself.
+      {&q_find_term, "SELECT term_id, df FROM terms WHERE field = ? AND term = ?"},
+      {&q_add_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, ?, ?)"},
+      {&q_term_df, "SELECT df FROM terms WHERE term_id = ?"},
       {&q_max_term, "SELECT coalesce(max(term_id), 0) FROM terms"},
-      {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ? RETURNING df - ?, df"},
+      {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ?"},
       {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data, block_id FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
       {&q_get_positions, "SELECT data FROM positions WHERE block_id = ?"},
       {&q_drop_block, "DELETE FROM postings WHERE block_id = ?"},
@@ -141,15 +146,16 @@ Status IndexWriter::Impl::remove_docs_of(std::int64_t file_id) {
     LODE_RETURN_IF_ERROR(codec::decode_forward(blob, fwd));
     for (auto& list : fwd)
       for (auto& [term_id, tf] : list) {
-        q_update_term.bind(1, std::int64_t{-1}).bind(2, -static_cast<std::int64_t>(tf))
-            .bind(3, term_id).bind(4, std::int64_t{-1});
-        if (!q_update_term.step()) {
-          s = q_update_term.status();
-          q_update_term.reset();
-          return s.ok() ? Status::Corruption("forward index names missing term " + std::to_string(term_id)) : s;
-        }
-        if (q_update_term.i64(1) == 0) --counters.terms;
-        q_update_term.reset();
+        LODE_RETURN_IF_ERROR(
+            q_update_term.bind(1, std::int64_t{-1}).bind(2, -static_cast<std::int64_t>(tf)).bind(3, term_id).run());
+        q_term_df.bind(1, term_id);
+        const bool found = q_term_df.step();
+        const std::int64_t df = found ? q_term_df.i64(0) : -1;
+        s = q_term_df.status();
+        q_term_df.reset();
+        LODE_RETURN_IF_ERROR(s);
+        if (!found) return Status::Corruption("forward index names missing term " + std::to_string(term_id));
+        if (df == 0) --counters.terms;
         --counters.postings;
       }
     LODE_RETURN_IF_ERROR(q_kill_doc.bind(1, std::int64_t{d.id}).run());
@@ -287,8 +293,8 @@ Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<c
 
 Status IndexWriter::Impl::flush() {
   if (!in_txn) return Status();
-  // 1. Term ids for every term of the batch, adding its df and cf in the
-  // same statement. Ids above the old maximum are new: they have no blocks.
+  // 1. Term ids for every term of the batch, adding its df and cf. Ids
+  // above the old maximum are new: they have no blocks.
   TermId max_before = 0;
   if (q_max_term.step()) max_before = q_max_term.i64(0);
   q_max_term.reset();
@@ -298,13 +304,27 @@ Status IndexWriter::Impl::flush() {
   for (std::uint32_t slot : batch.id_order()) {
     const PostingBatch::Term& t = batch.term(slot);
     const auto df = static_cast<std::int64_t>(t.df);
-    q_upsert_term.bind(1, static_cast<std::int64_t>(t.field)).bind(2, t.term).bind(3, df)
-        .bind(4, static_cast<std::int64_t>(t.cf));
-    auto row = sql::one_row(q_upsert_term, "term upsert returned no row");
-    if (!row) return row.status();
-    if (q_upsert_term.i64(1) == df) ++counters.terms;  // df was 0 before this batch
-    id_of[slot] = q_upsert_term.i64(0);
-    order.emplace_back(id_of[slot], slot);
+    const auto cf = static_cast<std::int64_t>(t.cf);
+    const auto field = static_cast<std::int64_t>(t.field);
+    TermId id = 0;
+    std::int64_t old_df = 0;
+    q_find_term.bind(1, field).bind(2, t.term);
+    if (q_find_term.step()) {
+      id = q_find_term.i64(0);
+      old_df = q_find_term.i64(1);
+    }
+    Status s = q_find_term.status();
+    q_find_term.reset();
+    LODE_RETURN_IF_ERROR(s);
+    if (id == 0) {
+      LODE_RETURN_IF_ERROR(q_add_term.bind(1, field).bind(2, t.term).bind(3, df).bind(4, cf).run());
+      id = db.last_insert_rowid();
+    } else {
+      LODE_RETURN_IF_ERROR(q_update_term.bind(1, df).bind(2, cf).bind(3, id).run());
+    }
+    if (old_df == 0) ++counters.terms;
+    id_of[slot] = id;
+    order.emplace_back(id, slot);
   }
   // 2. Postings, in term id order.
   std::sort(order.begin(), order.end());
@@ -324,17 +344,30 @@ Status IndexWriter::Impl::flush() {
                                       batch.term(slots[k]).field, order[k].first,
                                       refill && order[k].first <= max_before));
   }
-  // 3. Forward index of the batch's documents.
+  // 3. Forward index of the batch's documents. A record becomes one 64-bit
+  // word, term id above tf, so a plain integer sort orders a document's
+  // terms by id (sorting pairs with a comparator took twice as long).
+  static_assert(kFieldCount <= 2, "the field takes one bit of id_field");
+  std::vector<std::uint64_t> id_field(batch.term_count());  // term id << 1 | field
+  for (std::uint32_t slot = 0; slot < id_field.size(); ++slot) {
+    if (id_of[slot] >= (TermId{1} << 32)) return Status::Limit("more than 2^32 distinct terms in one index");
+    id_field[slot] = static_cast<std::uint64_t>(id_of[slot]) << 1 | static_cast<std::uint64_t>(batch.term(slot).field);
+  }
   per_field.resize(kFieldCount);
+  fwd_words.resize(kFieldCount);
   for (std::size_t d = 0; d < batch.documents(); ++d) {
-    for (auto& l : per_field) l.clear();
+    for (auto& w : fwd_words) w.clear();
     for (std::size_t r = batch.doc(d).first, end = batch.records_end(d); r < end; ++r) {
       const PostingBatch::Record& rec = batch.record(r);
-      per_field[static_cast<std::size_t>(batch.term(rec.slot()).field)].emplace_back(id_of[rec.slot()], rec.tf());
+      const std::uint64_t key = id_field[rec.slot()];
+      fwd_words[key & 1].push_back((key >> 1) << 32 | rec.tf());
     }
-    // Ids are unique within a field: ordering by id alone is enough.
-    for (auto& l : per_field)
-      std::sort(l.begin(), l.end(), [](const auto& a, const auto& b) { return a.first < b.first; });
+    for (std::size_t f = 0; f < kFieldCount; ++f) {
+      std::sort(fwd_words[f].begin(), fwd_words[f].end());
+      per_field[f].clear();
+      for (const std::uint64_t w : fwd_words[f])
+        per_field[f].emplace_back(static_cast<TermId>(w >> 32), static_cast<std::uint32_t>(w));
+    }
     LODE_RETURN_IF_ERROR(
         q_put_fwd.bind(1, std::int64_t{batch.doc(d).id}).bind_blob(2, codec::encode_forward(per_field)).run());
   }
