@@ -2,12 +2,14 @@
 // flushed into SQLite blocks in one transaction per batch (see
 // docs/index-format.md).
 #include <algorithm>
+#include <bit>
 #include <map>
 #include <span>
 
 #include "index/codec.h"
 #include "index/lock.h"
 #include "index/posting_batch.h"
+#include "index/radix_sort.h"
 #include "index/schema.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
@@ -38,6 +40,7 @@ struct IndexWriter::Impl {
   std::string pos_blob;
   std::vector<codec::ForwardList> per_field;
   std::vector<std::vector<std::uint64_t>> fwd_words;  // per field: term id << 32 | tf
+  std::vector<std::uint64_t> fwd_scratch;
 
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
@@ -345,14 +348,16 @@ Status IndexWriter::Impl::flush() {
                                       refill && order[k].first <= max_before));
   }
   // 3. Forward index of the batch's documents. A record becomes one 64-bit
-  // word, term id above tf, so a plain integer sort orders a document's
-  // terms by id (sorting pairs with a comparator took twice as long).
+  // word, term id above tf, sorted by the id's bits alone (radix_sort.h).
   static_assert(kFieldCount <= 2, "the field takes one bit of id_field");
   std::vector<std::uint64_t> id_field(batch.term_count());  // term id << 1 | field
+  TermId max_id = 0;
   for (std::uint32_t slot = 0; slot < id_field.size(); ++slot) {
     if (id_of[slot] >= (TermId{1} << 32)) return Status::Limit("more than 2^32 distinct terms in one index");
     id_field[slot] = static_cast<std::uint64_t>(id_of[slot]) << 1 | static_cast<std::uint64_t>(batch.term(slot).field);
+    max_id = std::max(max_id, id_of[slot]);
   }
+  const auto id_bits = static_cast<unsigned>(std::bit_width(static_cast<std::uint64_t>(max_id)));
   per_field.resize(kFieldCount);
   fwd_words.resize(kFieldCount);
   for (std::size_t d = 0; d < batch.documents(); ++d) {
@@ -363,7 +368,7 @@ Status IndexWriter::Impl::flush() {
       fwd_words[key & 1].push_back((key >> 1) << 32 | rec.tf());
     }
     for (std::size_t f = 0; f < kFieldCount; ++f) {
-      std::sort(fwd_words[f].begin(), fwd_words[f].end());
+      radix_sort_by_bits(fwd_words[f], fwd_scratch, 32, 32 + id_bits);
       per_field[f].clear();
       for (const std::uint64_t w : fwd_words[f])
         per_field[f].emplace_back(static_cast<TermId>(w >> 32), static_cast<std::uint32_t>(w));

@@ -4,6 +4,7 @@
 // document field (so ids do not depend on where batches end).
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <map>
 #include <random>
 #include <set>
@@ -11,6 +12,7 @@
 #include <vector>
 
 #include "index/posting_batch.h"
+#include "index/radix_sort.h"
 
 using namespace lode;
 
@@ -108,4 +110,27 @@ TEST_CASE("posting batch: runs, tf, positions and id order equal a map model") {
   batch.clear();
   CHECK(batch.term_count() == 0);
   CHECK(batch.documents() == 0);
+}
+
+TEST_CASE("radix_sort_by_bits equals std::stable_sort on the same bits") {
+  std::mt19937_64 rng(99);
+  std::vector<std::uint64_t> scratch;
+  // Sizes around the insertion-sort cut-off; key ranges of one to all 64
+  // bits, including a range with one value only (no word moves).
+  for (std::size_t n : {0u, 1u, 2u, 31u, 32u, 33u, 500u, 5000u}) {
+    for (auto [low, high] : {std::pair{32u, 51u}, std::pair{32u, 33u}, std::pair{0u, 64u}, std::pair{4u, 12u},
+                             std::pair{40u, 41u}}) {
+      CAPTURE(n);
+      CAPTURE(low);
+      CAPTURE(high);
+      std::vector<std::uint64_t> words(n);
+      for (auto& w : words) w = rng() & (n > 100 ? ~std::uint64_t{0} : 0xFFFF0000FFFFull);
+      const std::uint64_t mask = high - low >= 64 ? ~std::uint64_t{0} : (std::uint64_t{1} << (high - low)) - 1;
+      std::vector<std::uint64_t> expect = words;
+      std::stable_sort(expect.begin(), expect.end(),
+                       [&](std::uint64_t a, std::uint64_t b) { return ((a >> low) & mask) < ((b >> low) & mask); });
+      lode::radix_sort_by_bits(words, scratch, low, high);
+      CHECK(words == expect);
+    }
+  }
 }
