@@ -119,10 +119,11 @@ struct ReadOptions {
   // tree builder's time grows with depth squared, so a hostile page must be
   // stopped before it is parsed. Default 512: real pages stay under ~60.
   std::uint32_t max_html_depth = 512;
-  // JSON Lines files larger than this are read a slice at a time with
-  // JsonlStream (the indexer does so), so neither max_file_bytes nor
-  // max_text_bytes applies to the whole file: a dump of any size is indexed
-  // in bounded memory. Default 16 MiB. 0 = never.
+  // JSON Lines files larger than this (gzip-compressed ones: an eighth of
+  // it) are read a slice at a time with JsonlStream (the indexer does so), so
+  // neither max_file_bytes nor max_text_bytes (nor max_unpacked_bytes) applies
+  // to the whole file: a dump of any size is indexed in bounded memory.
+  // Default 16 MiB. 0 = never.
   std::int64_t stream_jsonl_bytes = std::int64_t{16} << 20;
   // Messages read from one mbox file; the rest are dropped with a warning.
   // 0 = no limit. Default 1,000,000.
@@ -203,15 +204,16 @@ Result<ReadResult> read_file(const std::string& path, const ReadOptions& options
 Result<std::string> hash_file(const std::string& path, const ReadOptions& options);
 
 // True when `path` (of `size` bytes) is a JSON Lines file that the indexer
-// reads with JsonlStream: read_file() would read it as JSON Lines (by name, and
-// its first bytes are not gzip, PDF or zip) and it is larger than
-// options.stream_jsonl_bytes. False when it cannot be opened (read_file then
-// reports why).
+// reads with JsonlStream: read_file() would read it as JSON Lines, plain and
+// larger than options.stream_jsonl_bytes, or gzip-compressed (".jsonl.gz")
+// and larger than an eighth of that. False when it cannot be opened
+// (read_file then reports why).
 bool streams_as_jsonl(const std::string& path, std::int64_t size, const ReadOptions& options);
 
-// Reads a JSON Lines file a slice of lines at a time, so memory stays bounded
-// by the slice whatever the file's size. It gives the documents and warnings
-// read_file() gives, with these differences: the text must be UTF-8 (invalid
+// Reads a JSON Lines file, plain or gzip-compressed, a slice of lines at a
+// time, so memory stays bounded by the slice whatever the file's size. It
+// gives the documents, warnings and hash read_file() gives (gzip: neither
+// max_unpacked_bytes nor max_file_bytes applies), with these differences: the text must be UTF-8 (invalid
 // sequences are replaced, with the same warning; no other charset is
 // detected); max_file_bytes does not apply; max_text_bytes bounds each line
 // (a longer line is skipped: "line N: longer than ... bytes"), not the file.
@@ -227,7 +229,7 @@ class JsonlStream {
   // The records of the next lines, reading about `slice_bytes` more of the
   // file (more when no whole line fits); empty once the file is read to its end.
   Result<std::vector<Document>> next(std::size_t slice_bytes);
-  // File bytes read so far.
+  // File bytes read so far (compressed bytes for a gzip file).
   std::int64_t bytes_read() const;
   // After next() has returned empty: the file's hash, size, mtime and
   // warnings (documents empty). A binary file fails the first next() with

@@ -1,51 +1,83 @@
-// gzip (RFC 1952) through zlib, every member of a multi-member file, within
-// the unpacked-size budget.
+// gzip (RFC 1952) through zlib: every member of a multi-member file, pulled
+// a piece at a time (GzipInflater) or unpacked whole within a budget (gunzip).
 #include <zlib.h>
+
+#include <algorithm>
 
 #include "ingest/readers.h"
 
 namespace lode::ingest {
 
-Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked) {
-  std::string out;
+struct GzipInflater::Stream {
   z_stream z{};
-  if (inflateInit2(&z, 15 + 16) != Z_OK) return Status::IOError(path + ": cannot start gzip decoder");
-  z.next_in = reinterpret_cast<Bytef*>(const_cast<char*>(bytes.data()));
-  std::size_t left = bytes.size();
-  char buf[65536];
-  int rc = Z_OK;
-  for (;;) {
-    if (z.avail_in == 0 && left > 0) {
-      const auto chunk = static_cast<uInt>(std::min<std::size_t>(left, 1u << 30));
-      z.avail_in = chunk;
-      left -= chunk;
+};
+
+GzipInflater::GzipInflater(std::string path, Input input)
+    : path_(std::move(path)), input_(std::move(input)), stream_(std::make_unique<Stream>()) {
+  ok_ = inflateInit2(&stream_->z, 15 + 16) == Z_OK;
+}
+
+GzipInflater::~GzipInflater() {
+  if (ok_) inflateEnd(&stream_->z);
+}
+
+Status GzipInflater::damaged(const char* why) const {
+  return Status::Corruption(path_ + ": damaged gzip data (" + (why != nullptr ? why : "truncated") + ")");
+}
+
+Result<std::size_t> GzipInflater::read(char* dst, std::size_t want) {
+  if (!ok_) return Status::IOError(path_ + ": cannot start gzip decoder");
+  z_stream& z = stream_->z;
+  z.next_out = reinterpret_cast<Bytef*>(dst);
+  z.avail_out = static_cast<uInt>(std::min<std::size_t>(want, 1u << 30));
+  const uInt asked = z.avail_out;
+  while (z.avail_out > 0 && !done_) {
+    if (z.avail_in == 0 && !input_done_) {
+      auto more = input_();
+      if (!more) return more.status();
+      if (more->empty()) {
+        input_done_ = true;
+      } else {
+        z.next_in = reinterpret_cast<Bytef*>(const_cast<char*>(more->data()));
+        z.avail_in = static_cast<uInt>(more->size());
+      }
     }
-    z.next_out = reinterpret_cast<Bytef*>(buf);
-    z.avail_out = sizeof buf;
-    rc = inflate(&z, Z_NO_FLUSH);
-    out.append(buf, sizeof buf - z.avail_out);
-    if (max_unpacked > 0 && static_cast<std::int64_t>(out.size()) > max_unpacked) {
-      inflateEnd(&z);
-      return Status::Limit(path + ": gzip data expands past " + std::to_string(max_unpacked) +
-                           " bytes (limit on unpacked size)");
+    if (z.avail_in == 0 && input_done_) {
+      if (!member_ended_) return damaged(nullptr);
+      done_ = true;
+      break;
     }
+    if (member_ended_) {  // another member follows
+      inflateReset(&z);
+      member_ended_ = false;
+    }
+    const int rc = inflate(&z, Z_NO_FLUSH);
     if (rc == Z_STREAM_END) {
-      if (z.avail_in == 0 && left == 0) break;
-      inflateReset(&z);  // another member follows
-      continue;
-    }
-    if (rc != Z_OK) {
-      const std::string why = z.msg != nullptr ? z.msg : "truncated";
-      inflateEnd(&z);
-      return Status::Corruption(path + ": damaged gzip data (" + why + ")");
-    }
-    if (z.avail_in == 0 && left == 0 && z.avail_out != 0) {
-      inflateEnd(&z);
-      return Status::Corruption(path + ": damaged gzip data (truncated)");
+      member_ended_ = true;
+    } else if (rc != Z_OK && !(rc == Z_BUF_ERROR && z.avail_in == 0)) {
+      return damaged(z.msg);
     }
   }
-  inflateEnd(&z);
-  return out;
+  return static_cast<std::size_t>(asked - z.avail_out);
+}
+
+Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked) {
+  GzipInflater inflater(path, [bytes]() mutable -> Result<std::string_view> {
+    const std::string_view piece = bytes.substr(0, std::size_t{1} << 30);
+    bytes.remove_prefix(piece.size());
+    return piece;
+  });
+  std::string out;
+  char buf[65536];
+  for (;;) {
+    auto got = inflater.read(buf, sizeof buf);
+    if (!got) return got.status();
+    if (*got == 0) return out;
+    out.append(buf, *got);
+    if (max_unpacked > 0 && static_cast<std::int64_t>(out.size()) > max_unpacked)
+      return Status::Limit(path + ": gzip data expands past " + std::to_string(max_unpacked) +
+                           " bytes (limit on unpacked size)");
+  }
 }
 
 }  // namespace lode::ingest

@@ -279,14 +279,22 @@ Result<std::string> hash_file(const std::string& path, const ReadOptions& option
 }
 
 bool streams_as_jsonl(const std::string& path, std::int64_t size, const ReadOptions& options) {
-  if (options.stream_jsonl_bytes <= 0 || size <= options.stream_jsonl_bytes) return false;
+  if (options.stream_jsonl_bytes <= 0) return false;
   const std::string name = std::filesystem::path(path).filename().string();
-  if (format_of(name, "") != Format::kJsonl) return false;
+  const std::string_view inner =
+      lower_extension(name) == ".gz" ? std::string_view(name).substr(0, name.size() - 3) : std::string_view(name);
+  if (format_of(inner, "") != Format::kJsonl) return false;
   auto opened = open_regular(path);
   if (!opened) return false;
   char head[8];
   auto got = read_some((*opened)->fd.get(), head, sizeof head, path);
-  return got.ok() && format_of(name, std::string_view(head, *got)) == Format::kJsonl;
+  if (!got) return false;
+  switch (format_of(name, std::string_view(head, *got))) {
+    case Format::kJsonl: return size > options.stream_jsonl_bytes;
+    // Rule of thumb (common practice): gzip packs JSON text 5 to 10 times.
+    case Format::kGzip: return size > options.stream_jsonl_bytes / 8;
+    default: return false;
+  }
 }
 
 // --- JsonlStream ---------------------------------------------------------------
@@ -295,11 +303,14 @@ struct JsonlStream::Impl {
   std::string path;
   ReadOptions options;
   std::unique_ptr<OpenFile> file;
-  StreamHash hash;
+  StreamHash hash;               // of the file's bytes, as read_file's
+  std::unique_ptr<ingest::GzipInflater> gzip;  // set for gzip-compressed JSON Lines
+  std::string packed;            // compressed bytes for `gzip`
   ingest::JsonlRecords records;
   std::string carry;             // the start of a line the last read cut
-  std::int64_t offset = 0;       // file bytes read
-  std::int64_t carry_at = 0;     // file offset of carry[0]
+  std::int64_t file_bytes = 0;   // file bytes read (compressed, for gzip)
+  std::int64_t offset = 0;       // text bytes read (unpacked): what warnings count in
+  std::int64_t carry_at = 0;     // text offset of carry[0]
   bool at_end = false;
   bool skipping = false;         // inside a line too long to read, up to its '\n'
   std::size_t replaced = 0;      // invalid UTF-8 sequences replaced so far
@@ -310,8 +321,21 @@ struct JsonlStream::Impl {
   std::size_t max_line() const {
     return options.max_text_bytes > 0 ? static_cast<std::size_t>(options.max_text_bytes) : SIZE_MAX;
   }
-  // Reads the whole lines of `text` (file offset `at`): UTF-8 repaired, then records.
+  // Reads the whole lines of `text` (text offset `at`): UTF-8 repaired, then records.
   Status take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out);
+  // Up to `want` bytes of the file, hashed as they pass; 0 at its end.
+  Result<std::size_t> read_file_bytes(char* dst, std::size_t want) {
+    auto got = read_some(file->fd.get(), dst, want, path);
+    if (got.ok()) {
+      hash.add(std::string_view(dst, *got));
+      file_bytes += static_cast<std::int64_t>(*got);
+    }
+    return got;
+  }
+  // Up to `want` bytes of text: the file's, or what its gzip data unpacks to.
+  Result<std::size_t> read_text(char* dst, std::size_t want) {
+    return gzip ? gzip->read(dst, want) : read_file_bytes(dst, want);
+  }
 };
 
 Status JsonlStream::Impl::take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out) {
@@ -332,10 +356,22 @@ JsonlStream::~JsonlStream() = default;
 Result<std::unique_ptr<JsonlStream>> JsonlStream::open(const std::string& path, const ReadOptions& options) {
   auto opened = open_regular(path);
   if (!opened) return opened.status();
-  return std::unique_ptr<JsonlStream>(new JsonlStream(std::make_unique<Impl>(path, options, std::move(*opened))));
+  char magic[2] = {0, 0};
+  const bool gzip = ::pread((*opened)->fd.get(), magic, 2, 0) == 2 && magic[0] == '\x1f' && magic[1] == '\x8b';
+  auto impl = std::make_unique<Impl>(path, options, std::move(*opened));
+  if (gzip) {
+    Impl* m = impl.get();
+    m->packed.resize(std::size_t{1} << 20);
+    m->gzip = std::make_unique<ingest::GzipInflater>(path, [m]() -> Result<std::string_view> {
+      auto got = m->read_file_bytes(m->packed.data(), m->packed.size());
+      if (!got) return got.status();
+      return std::string_view(m->packed.data(), *got);
+    });
+  }
+  return std::unique_ptr<JsonlStream>(new JsonlStream(std::move(impl)));
 }
 
-std::int64_t JsonlStream::bytes_read() const { return impl_->offset; }
+std::int64_t JsonlStream::bytes_read() const { return impl_->file_bytes; }
 
 Result<std::vector<Document>> JsonlStream::next(std::size_t slice_bytes) {
   Impl& m = *impl_;
@@ -343,17 +379,16 @@ Result<std::vector<Document>> JsonlStream::next(std::size_t slice_bytes) {
   std::string buf;
   while (out.empty() && !m.at_end) {
     buf.resize(std::max<std::size_t>(slice_bytes, 1));
-    auto got = read_some(m.file->fd.get(), buf.data(), buf.size(), m.path);
+    auto got = m.read_text(buf.data(), buf.size());
     if (!got) return got.status();
     buf.resize(*got);
-    m.hash.add(buf);
     std::string_view fresh(buf);
     std::int64_t fresh_at = m.offset;
     m.offset += static_cast<std::int64_t>(*got);
     if (*got == 0) {
       m.at_end = true;
       struct stat after {};
-      if (::fstat(m.file->fd.get(), &after) == 0 && (moved(m.file->st, after) || m.offset != m.file->st.st_size))
+      if (::fstat(m.file->fd.get(), &after) == 0 && (moved(m.file->st, after) || m.file_bytes != m.file->st.st_size))
         return changed_while_read(m.path);
     }
     if (fresh_at == 0) {  // the checks read_file makes at the start of a file
@@ -417,7 +452,7 @@ ReadResult JsonlStream::finish() {
   Impl& m = *impl_;
   ReadResult r;
   r.content_hash = m.hash.hex();
-  r.size = m.offset;
+  r.size = m.file_bytes;
   r.mtime_ns = mtime_of(m.file->st);
   r.warnings = m.records.warnings();
   if (m.replaced > 0)

@@ -5,6 +5,8 @@
 #pragma once
 
 #include <cstdint>
+#include <functional>
+#include <memory>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -78,5 +80,32 @@ Result<Parsed> read_zip_document(std::string_view bytes, const std::string& path
 Result<Parsed> read_mail(std::string_view bytes, const std::string& path, const ReadOptions& options, bool mbox);
 // The decompressed bytes of a gzip file (all members).
 Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked);
+
+// gzip data (every member of a multi-member file) unpacked as it is pulled,
+// for files too large to hold unpacked. `input` gives the next compressed
+// bytes (empty: there are no more); they must stay valid until it is called
+// again. Errors name the file: Corruption "damaged gzip data (<zlib's
+// reason, or truncated>)", or what `input` returned.
+class GzipInflater {
+ public:
+  using Input = std::function<Result<std::string_view>()>;
+  GzipInflater(std::string path, Input input);
+  ~GzipInflater();
+  GzipInflater(const GzipInflater&) = delete;
+  GzipInflater& operator=(const GzipInflater&) = delete;
+  // Up to `want` unpacked bytes into `dst`; 0 once the data has ended cleanly.
+  Result<std::size_t> read(char* dst, std::size_t want);
+
+ private:
+  struct Stream;  // zlib's state, kept out of this header
+  Status damaged(const char* why) const;
+  std::string path_;
+  Input input_;
+  std::unique_ptr<Stream> stream_;
+  bool ok_ = false;
+  bool input_done_ = false;
+  bool member_ended_ = false;
+  bool done_ = false;
+};
 
 }  // namespace lode::ingest

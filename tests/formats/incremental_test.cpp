@@ -4,6 +4,7 @@
 #include <doctest/doctest.h>
 
 #include <map>
+#include <vector>
 
 #include "harness.h"
 #include "make_files.h"
@@ -278,3 +279,74 @@ TEST_CASE("the writer refuses parts of a file it has not begun") {
   CHECK((*writer)->add_documents({}).code() == lode::Code::kInvalidArgument);  // the file is gone
 }
 
+
+TEST_CASE("a gzip-compressed JSON Lines file streams in parts like the plain one, members and damage included") {
+  Scratch s;
+  std::string text = "\xEF\xBB\xBF";
+  for (int i = 0; i < 200; ++i)
+    text += "{\"id\": \"g" + std::to_string(i % 190) + "\", \"text\": \"gauge reading " + std::to_string(i) +
+            (i == 7 ? " bad \xFF byte" : "") + "\"}\n";
+  text += "not json\n";
+  // Two gzip members (as `cat a.gz b.gz` makes), cut inside a line.
+  const std::size_t cut = text.size() / 2 + 5;
+  const std::string packed = gzip_bytes(text.substr(0, cut)) + gzip_bytes(text.substr(cut));
+  const std::string gz = s.write("dump.jsonl.gz", packed);
+  auto whole = lode::read_file(gz, {});
+  REQUIRE(whole.ok());
+  REQUIRE(whole->documents.size() == 200);
+  REQUIRE(whole->warnings.size() == 3);  // the bad byte, the bad line, repeated ids
+  lode::ReadOptions o;
+  o.stream_jsonl_bytes = 80;
+  CHECK(lode::streams_as_jsonl(gz, static_cast<std::int64_t>(packed.size()), o));
+  o.stream_jsonl_bytes = static_cast<std::int64_t>(packed.size()) * 8;
+  CHECK_FALSE(lode::streams_as_jsonl(gz, static_cast<std::int64_t>(packed.size()), o));
+  for (std::size_t slice : {std::size_t{5}, std::size_t{300}, std::size_t{1} << 20}) {
+    CAPTURE(slice);
+    auto stream = lode::JsonlStream::open(gz, {});
+    REQUIRE(stream.ok());
+    std::vector<lode::Document> docs;
+    for (;;) {
+      auto part = (*stream)->next(slice);
+      REQUIRE_MESSAGE(part.ok(), part.status().to_string());
+      if (part->empty()) break;
+      for (auto& d : *part) docs.push_back(std::move(d));
+    }
+    const lode::ReadResult done = (*stream)->finish();
+    REQUIRE(docs.size() == whole->documents.size());
+    for (std::size_t i = 0; i < docs.size(); ++i) {
+      CHECK(docs[i].external_id == whole->documents[i].external_id);
+      CHECK(docs[i].body == whole->documents[i].body);
+    }
+    CHECK(done.warnings == whole->warnings);
+    CHECK(done.content_hash == whole->content_hash);
+    CHECK(done.size == static_cast<std::int64_t>(packed.size()));
+    CHECK((*stream)->bytes_read() == done.size);
+  }
+
+  // Indexed in parts, it equals the same file indexed whole.
+  const std::string whole_index = s.other("whole.sqlite");
+  index_parts(whole_index, s.tree(), 0, 0);
+  auto parts = index_parts(s.index(), s.tree(), 80, 9);
+  CHECK(parts.added == 1);
+  CHECK(parts.documents == 200);
+  compare(snapshot(s.index(), {"gauge", "reading 17"}), snapshot(whole_index, {"gauge", "reading 17"}));
+
+  // Truncated gzip data fails the file with zlib's reason, as read_file does,
+  // and leaves none of its parts in the index.
+  s.write("dump.jsonl.gz", packed.substr(0, packed.size() - 30));
+  auto cut_whole = lode::read_file(gz, {});
+  REQUIRE_FALSE(cut_whole.ok());
+  auto stream = lode::JsonlStream::open(gz, {});
+  REQUIRE(stream.ok());
+  lode::Status failed;
+  for (int i = 0; i < 1000 && failed.ok(); ++i) {
+    auto part = (*stream)->next(64);
+    if (!part.ok()) failed = part.status();
+    else if (part->empty()) break;
+  }
+  CHECK(failed.code() == lode::Code::kCorruption);
+  CHECK(failed.message() == cut_whole.status().message());
+  auto broken = index_parts(s.index(), s.tree(), 80, 9);
+  CHECK(broken.failed == 1);
+  CHECK(search(s.index(), "gauge").matched == 0);
+}

@@ -286,7 +286,7 @@ TEST_CASE("streams_as_jsonl: JSON Lines by name and content, above the size set"
   CHECK_FALSE(lode::streams_as_jsonl(big, 10, o));  // not above the size
   CHECK(lode::streams_as_jsonl(d.write("b.NDJSON", "{\"text\": \"enough bytes\"}\n"), 26, o));
   CHECK_FALSE(lode::streams_as_jsonl(d.write("c.txt", "{\"text\": \"enough bytes\"}\n"), 26, o));
-  CHECK_FALSE(lode::streams_as_jsonl(d.write("d.jsonl", "\x1f\x8b\x08 gzip inside"), 26, o));  // content wins
+  CHECK_FALSE(lode::streams_as_jsonl(d.write("d.jsonl", "%PDF-1.4 a PDF named .jsonl"), 26, o));  // content wins
   CHECK_FALSE(lode::streams_as_jsonl(d.path("gone.jsonl"), 26, o));
   o.stream_jsonl_bytes = 0;
   CHECK_FALSE(lode::streams_as_jsonl(big, 26, o));
