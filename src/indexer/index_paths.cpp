@@ -68,6 +68,8 @@ class Run {
   void count_file(const FileRecord& rec, std::size_t documents, bool had_old);
   Status fail(const std::string& path, const Status& why, bool had_old);
   Status store_problems(const std::string& path, std::vector<RecordedProblem> problems);
+  // A file read with these warnings (none: read cleanly): reported and recorded.
+  Status store_warnings(const std::string& path, const std::vector<std::string>& warnings);
 
   IndexWriter& writer_;
   const IndexRunOptions& options_;
@@ -85,6 +87,15 @@ Status Run::store_problems(const std::string& path, std::vector<RecordedProblem>
   recorded_.insert(path);
   if (problems.empty() && !problem_paths_.count(path)) return Status();
   return writer_.record_problems(path, problems);
+}
+
+Status Run::store_warnings(const std::string& path, const std::vector<std::string>& warnings) {
+  std::vector<RecordedProblem> problems;
+  for (auto& w : warnings) {
+    report_.warnings.push_back({path, w});
+    problems.push_back(RecordedProblem{path, false, w, now_ns()});
+  }
+  return store_problems(path, std::move(problems));
 }
 
 Status Run::fail(const std::string& path, const Status& why, bool had_old) {
@@ -162,12 +173,7 @@ Status Run::apply_stream(const FileInfo& info, const std::string& hash, const st
   }
   ReadResult done = reader.finish();
   report_.bytes_read += static_cast<std::uint64_t>(done.size);
-  std::vector<RecordedProblem> warnings;
-  for (auto& w : done.warnings) {
-    report_.warnings.push_back({info.path, w});
-    warnings.push_back(RecordedProblem{info.path, false, w, now_ns()});
-  }
-  LODE_RETURN_IF_ERROR(store_problems(info.path, std::move(warnings)));
+  LODE_RETURN_IF_ERROR(store_warnings(info.path, done.warnings));
   rec.hash = done.content_hash;
   rec.size = done.size;
   rec.mtime_ns = done.mtime_ns;
@@ -212,12 +218,7 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
     return fail(info.path, Status::NotFound("vanished while being indexed"), old.has_value());
   if (stream) return apply_stream(info, read->content_hash, old);
   report_.bytes_read += static_cast<std::uint64_t>(read->size);
-  std::vector<RecordedProblem> warnings;
-  for (auto& w : read->warnings) {
-    report_.warnings.push_back({info.path, w});
-    warnings.push_back(RecordedProblem{info.path, false, w, now_ns()});
-  }
-  LODE_RETURN_IF_ERROR(store_problems(info.path, std::move(warnings)));
+  LODE_RETURN_IF_ERROR(store_warnings(info.path, read->warnings));
   FileRecord rec{info.path, root, read->size, read->mtime_ns, read->content_hash,
                  read->documents.empty() ? indexer::kind_of_name(info.path) : read->documents.front().kind};
   if (old && old->hash == read->content_hash) {
