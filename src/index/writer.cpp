@@ -6,6 +6,10 @@
 #include <map>
 #include <span>
 
+#ifdef __GLIBC__
+#include <malloc.h>
+#endif
+
 #include "index/codec.h"
 #include "index/lock.h"
 #include "index/posting_batch.h"
@@ -382,6 +386,12 @@ Status IndexWriter::Impl::flush() {
   LODE_RETURN_IF_ERROR(schema::store_counters(db, counters));
   LODE_RETURN_IF_ERROR(db.exec("COMMIT"));
   in_txn = false;
+#ifdef __GLIBC__
+  // Hand the freed pages of the batch's many small allocations back to the
+  // system. Without it the heap kept the holes between allocations that
+  // outlive a batch, and peak RSS grew by about 5 MB a commit (bench/).
+  malloc_trim(0);
+#endif
   batch.clear();
   dirty_norms.clear();
   first_pending = 0;

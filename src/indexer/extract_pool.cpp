@@ -1,8 +1,14 @@
 #include "indexer/extract_pool.h"
 
+#include <algorithm>
+
 namespace lode::indexer {
 
 namespace {
+
+bool contains(const std::vector<std::string>& v, const std::string& s) {
+  return std::find(v.begin(), v.end(), s) != v.end();
+}
 
 // Text bytes an outcome holds (what dominates its memory).
 std::size_t held_bytes(const ReadOutcome& o) {
@@ -17,7 +23,7 @@ std::size_t held_bytes(const ReadOutcome& o) {
 ExtractPool::ExtractPool(std::vector<ReadJob> jobs, ReadOptions options, unsigned threads, std::size_t ahead,
                          std::size_t ahead_bytes)
     : jobs_(std::move(jobs)), options_(std::move(options)), ahead_(std::max<std::size_t>(ahead, 1)),
-      ahead_bytes_(ahead_bytes), done_(jobs_.size()) {
+      ahead_bytes_(ahead_bytes) {
   const unsigned n = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(jobs_.size(), 1))));
   for (unsigned i = 0; i < n; ++i) workers_.emplace_back([this](std::stop_token st) { work(st); });
 }
@@ -43,7 +49,7 @@ void ExtractPool::work(std::stop_token stop) {
     ReadOutcome out;
     if (job.stream) {
       auto hash = hash_file(job.path, options_);
-      if (hash.ok() && job.rename_hashes.count(*hash)) {
+      if (hash.ok() && contains(job.rename_hashes, *hash)) {
         out.renamed_hash = *hash;
       } else if (hash.ok()) {
         ReadResult hashed;
@@ -55,7 +61,7 @@ void ExtractPool::work(std::stop_token stop) {
     } else {
       if (!job.rename_hashes.empty()) {
         auto hash = hash_file(job.path, options_);
-        if (hash.ok() && job.rename_hashes.count(*hash)) out.renamed_hash = *hash;
+        if (hash.ok() && contains(job.rename_hashes, *hash)) out.renamed_hash = *hash;
       }
       if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
     }
@@ -63,7 +69,7 @@ void ExtractPool::work(std::stop_token stop) {
     bool wanted = false;
     {
       std::lock_guard lock(mu_);
-      done_[i] = std::move(out);
+      done_.emplace(i, std::move(out));
       waiting_bytes_ += bytes;
       wanted = i == awaited_;  // the consumer waits for this one
     }
@@ -73,14 +79,14 @@ void ExtractPool::work(std::stop_token stop) {
 
 ReadOutcome ExtractPool::take(std::size_t i) {
   std::unique_lock lock(mu_);
-  if (!done_[i]) {
+  if (!done_.count(i)) {
     awaited_ = i;
     if (i >= next_) cv_.notify_all();  // not started yet: make sure a worker is awake to start it
-    cv_.wait(lock, [&] { return done_[i].has_value(); });
+    cv_.wait(lock, [&] { return done_.count(i) != 0; });
     awaited_ = kNone;
   }
-  ReadOutcome out = std::move(*done_[i]);
-  done_[i].reset();
+  auto node = done_.extract(i);
+  ReadOutcome out = std::move(node.mapped());
   waiting_bytes_ -= held_bytes(out);
   taken_ = i + 1;
   // Wake the workers only once the read-ahead is half used up: waking one

@@ -5,9 +5,9 @@
 
 #include <condition_variable>
 #include <cstddef>
+#include <map>
 #include <mutex>
 #include <optional>
-#include <set>
 #include <string>
 #include <thread>
 #include <vector>
@@ -20,7 +20,7 @@ struct ReadJob {
   std::string path;
   // Content hashes of files that vanished with this file's size: when the
   // file's hash is one of these it is a rename and is not extracted.
-  std::set<std::string> rename_hashes;
+  std::vector<std::string> rename_hashes;
   // A large JSON Lines file the writer thread reads itself with JsonlStream:
   // the worker only hashes it.
   bool stream = false;
@@ -58,7 +58,9 @@ class ExtractPool {
   std::size_t waiting_bytes_ = 0;  // text held by finished, unclaimed results
   std::mutex mu_;
   std::condition_variable_any cv_;
-  std::vector<std::optional<ReadOutcome>> done_;
+  // Finished, unclaimed outcomes by job (at most `ahead` of them: a vector
+  // with a slot per job cost 150 bytes a file on a million-file crawl).
+  std::map<std::size_t, ReadOutcome> done_;
   std::size_t next_ = 0;   // next job to hand to a worker
   std::size_t taken_ = 0;  // jobs the consumer has taken
   static constexpr std::size_t kNone = static_cast<std::size_t>(-1);

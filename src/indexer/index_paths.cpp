@@ -1,5 +1,6 @@
 // index_paths(): crawl, decide per file (unchanged / read / rename / remove),
 // extract in parallel, apply on this thread, commit.
+#include <algorithm>
 #include <chrono>
 #include <filesystem>
 #include <future>
@@ -78,13 +79,13 @@ class Run {
   IndexReport report_;
   IndexProgress prog_;
   std::set<std::string> problem_paths_;  // paths with problems recorded before this run
-  std::set<std::string> recorded_;       // paths whose problems this run rewrote
+  std::set<std::string> recorded_;       // of those, the ones whose problems this run rewrote
   // Vanished files by size, for rename detection; erased when claimed.
   std::multimap<std::int64_t, FileRecord> missing_;
 };
 
 Status Run::store_problems(const std::string& path, std::vector<RecordedProblem> problems) {
-  recorded_.insert(path);
+  if (problem_paths_.count(path)) recorded_.insert(path);  // only these are looked up
   if (problems.empty() && !problem_paths_.count(path)) return Status();
   return writer_.record_problems(path, problems);
 }
@@ -249,25 +250,30 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     LODE_RETURN_IF_ERROR(store_problems(p.path, {RecordedProblem{p.path, true, p.reason, now_ns()}}));
 
   // Files held but not crawled: gone (or renamed) unless a crawl problem hides them.
-  std::set<std::string> crawled_paths;
-  for (auto& f : crawled->files) crawled_paths.insert(f.path);
+  // The crawl is sorted by path: membership by binary search, not a copy of every path.
+  const auto crawled_has = [&files = crawled->files](const std::string& path) {
+    auto it = std::lower_bound(files.begin(), files.end(), path,
+                               [](const FileInfo& f, const std::string& p) { return f.path < p; });
+    return it != files.end() && it->path == path;
+  };
   std::vector<std::string> gone;
   if (options_.remove_missing)
     for (auto& [path, rec] : *held)
-      if (!crawled_paths.count(path) && !under_problem(path, crawled->problems)) {
+      if (!crawled_has(path) && !under_problem(path, crawled->problems)) {
         gone.push_back(path);
         missing_.emplace(rec.size, rec);
       }
 
   // Decide which files need reading.
-  std::vector<std::pair<const FileInfo*, std::optional<FileRecord>>> todo;
+  // (file, its record in `held` or null): pointers, as a crawl can list a
+  // million files.
+  std::vector<std::pair<const FileInfo*, const FileRecord*>> todo;
   std::vector<ReadJob> jobs;
   std::vector<bool> streamed;  // per todo entry: a JSON Lines file read in parts
   for (const FileInfo& info : crawled->files) {
     prog_.bytes_total += static_cast<std::uint64_t>(info.size);
     auto it = held->find(info.path);
-    std::optional<FileRecord> old;
-    if (it != held->end()) old = it->second;
+    const FileRecord* old = it != held->end() ? &it->second : nullptr;
     if (old && old->size == info.size && old->mtime_ns == info.mtime_ns && old->root == indexer::root_of(info.path, roots_)) {
       ++report_.unchanged;
       prog_.bytes_done += static_cast<std::uint64_t>(info.size);
@@ -276,10 +282,10 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     ReadJob job{info.path, {}, streams_as_jsonl(info.path, info.size, options_.read)};
     if (!old)
       for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
-        job.rename_hashes.insert(m->second.hash);
+        job.rename_hashes.push_back(m->second.hash);
     streamed.push_back(job.stream);
     jobs.push_back(std::move(job));
-    todo.emplace_back(&info, std::move(old));
+    todo.emplace_back(&info, old);
   }
   prog_.files_total = crawled->files.size();
   prog_.files_done = crawled->files.size() - todo.size();
@@ -296,7 +302,9 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
       const FileInfo& info = *todo[i].first;
       prog_.current = info.path;
       if (progress_) progress_(prog_);
-      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), todo[i].second, streamed[i]));
+      const std::optional<FileRecord> old =
+          todo[i].second != nullptr ? std::optional<FileRecord>(*todo[i].second) : std::nullopt;
+      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), old, streamed[i]));
       ++prog_.files_done;
       prog_.bytes_done += static_cast<std::uint64_t>(info.size);
     }
@@ -316,7 +324,7 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     }
     // Problems of paths under the roots that are gone or now read cleanly.
     for (auto& path : problem_paths_)
-      if (!recorded_.count(path) && !crawled_paths.count(path) && indexer::root_of(path, roots_).size() > 0)
+      if (!recorded_.count(path) && !crawled_has(path) && indexer::root_of(path, roots_).size() > 0)
         LODE_RETURN_IF_ERROR(writer_.record_problems(path, {}));
   }
   LODE_RETURN_IF_ERROR(writer_.commit());
