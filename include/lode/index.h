@@ -58,7 +58,7 @@ struct WriterOptions {
   // committed. Default 256 MiB: large batches write fewer, fuller blocks.
   // Peak RSS of a run is about this plus 130 MiB, whatever the corpus size
   // (bench/README.md: 197 MiB at 64 MiB, 391 MiB at 256 MiB on 1.1 GB, 415
-  // MiB at 256 MiB on 2.2 GB), plus about 150 bytes per file crawled.
+  // MiB at 256 MiB on 2.2 GB), plus about 200 bytes per file crawled.
   std::size_t batch_bytes = std::size_t{256} << 20;
   // Commit at least every this many documents (0 = only by size / on commit()).
   std::size_t batch_documents = 0;

@@ -48,7 +48,7 @@ void ExtractPool::work(std::stop_token stop) {
     const ReadJob& job = jobs_[i];
     ReadOutcome out;
     if (job.stream) {
-      auto hash = hash_file(job.path, options_);
+      auto hash = hash_file(*job.path, options_);
       if (hash.ok() && contains(job.rename_hashes, *hash)) {
         out.renamed_hash = *hash;
       } else if (hash.ok()) {
@@ -60,10 +60,10 @@ void ExtractPool::work(std::stop_token stop) {
       }
     } else {
       if (!job.rename_hashes.empty()) {
-        auto hash = hash_file(job.path, options_);
+        auto hash = hash_file(*job.path, options_);
         if (hash.ok() && contains(job.rename_hashes, *hash)) out.renamed_hash = *hash;
       }
-      if (out.renamed_hash.empty()) out.read = read_file(job.path, options_);
+      if (out.renamed_hash.empty()) out.read = read_file(*job.path, options_);
     }
     const std::size_t bytes = held_bytes(out);
     bool wanted = false;

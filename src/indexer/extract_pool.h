@@ -17,7 +17,9 @@
 namespace lode::indexer {
 
 struct ReadJob {
-  std::string path;
+  // The crawl's copy, which must outlive the pool (a million files would
+  // otherwise hold their paths twice).
+  const std::string* path = nullptr;
   // Content hashes of files that vanished with this file's size: when the
   // file's hash is one of these it is a rename and is not extracted.
   std::vector<std::string> rename_hashes;

@@ -279,7 +279,7 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
       prog_.bytes_done += static_cast<std::uint64_t>(info.size);
       continue;
     }
-    ReadJob job{info.path, {}, streams_as_jsonl(info.path, info.size, options_.read)};
+    ReadJob job{&info.path, {}, streams_as_jsonl(info.path, info.size, options_.read)};
     if (!old)
       for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
         job.rename_hashes.push_back(m->second.hash);
