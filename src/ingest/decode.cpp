@@ -45,12 +45,23 @@ std::string normalise_newlines(std::string text) {
 
 }  // namespace
 
-Result<DecodedText> decode_text(std::string_view bytes, const std::string& path) {
-  const std::size_t sniff = std::min(bytes.size(), kBinarySniffBytes);
+Status refuse_binary(std::string_view bytes, std::int64_t at, const std::string& path) {
+  if (at < 0 || at >= static_cast<std::int64_t>(kBinarySniffBytes)) return Status();
+  const std::size_t sniff = std::min(bytes.size(), kBinarySniffBytes - static_cast<std::size_t>(at));
   if (const void* nul = std::memchr(bytes.data(), '\0', sniff); nul != nullptr) {
-    const auto at = static_cast<const char*>(nul) - bytes.data();
-    return Status::Unsupported(path + ": binary file (NUL byte at offset " + std::to_string(at) + ")");
+    const auto offset = at + (static_cast<const char*>(nul) - bytes.data());
+    return Status::Unsupported(path + ": binary file (NUL byte at offset " + std::to_string(offset) + ")");
   }
+  return Status();
+}
+
+std::string invalid_utf8_warning(std::int64_t first_bad, std::size_t replaced) {
+  return "invalid UTF-8 at byte " + std::to_string(first_bad) + " (" + std::to_string(replaced) +
+         (replaced == 1 ? " sequence replaced)" : " sequences replaced)");
+}
+
+Result<DecodedText> decode_text(std::string_view bytes, const std::string& path) {
+  LODE_RETURN_IF_ERROR(refuse_binary(bytes, 0, path));
   std::size_t bom = 0;
   if (bytes.size() >= 3 && bytes.substr(0, 3) == "\xEF\xBB\xBF") bom = 3;
   const std::string_view body = bytes.substr(bom);
@@ -83,9 +94,7 @@ Result<DecodedText> decode_text(std::string_view bytes, const std::string& path)
       return Status::Unsupported(path + ": binary file (" + std::to_string(fixed.replaced) + " of " +
                                  std::to_string(chars) + " characters are not valid UTF-8)");
     }
-    out.warning = "invalid UTF-8 at byte " + std::to_string(fixed.first_bad_offset + bom) + " (" +
-                  std::to_string(fixed.replaced) +
-                  (fixed.replaced == 1 ? " sequence replaced)" : " sequences replaced)");
+    out.warning = invalid_utf8_warning(static_cast<std::int64_t>(fixed.first_bad_offset + bom), fixed.replaced);
     out.text = std::move(fixed.text);
   }
   out.text = normalise_newlines(std::move(out.text));

@@ -2,6 +2,7 @@
 // BOM removal, UTF-8 repair and line-ending normalisation.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <string_view>
 
@@ -11,6 +12,15 @@ namespace lode::ingest {
 
 // Only this many leading bytes are searched for a NUL byte.
 inline constexpr std::size_t kBinarySniffBytes = 8192;
+
+// Unsupported ("<path>: binary file (NUL byte at offset N)") when `bytes`,
+// which start at file offset `at`, hold a NUL within the file's first
+// kBinarySniffBytes; ok otherwise. For readers that see a file in pieces.
+Status refuse_binary(std::string_view bytes, std::int64_t at, const std::string& path);
+
+// The one warning for repaired UTF-8: "invalid UTF-8 at byte <first_bad>
+// (<n> sequence(s) replaced)".
+std::string invalid_utf8_warning(std::int64_t first_bad, std::size_t replaced);
 
 struct DecodedText {
   std::string text;     // valid UTF-8, no BOM, lines end in '\n' only

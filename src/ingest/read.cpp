@@ -314,7 +314,7 @@ struct JsonlStream::Impl {
   bool at_end = false;
   bool skipping = false;         // inside a line too long to read, up to its '\n'
   std::size_t replaced = 0;      // invalid UTF-8 sequences replaced so far
-  std::int64_t first_bad = -1;   // file offset of the first
+  std::int64_t first_bad = -1;   // text offset of the first
 
   Impl(std::string p, ReadOptions o, std::unique_ptr<OpenFile> f)
       : path(std::move(p)), options(std::move(o)), file(std::move(f)), records(path, options) {}
@@ -322,7 +322,7 @@ struct JsonlStream::Impl {
     return options.max_text_bytes > 0 ? static_cast<std::size_t>(options.max_text_bytes) : SIZE_MAX;
   }
   // Reads the whole lines of `text` (text offset `at`): UTF-8 repaired, then records.
-  Status take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out);
+  void take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out);
   // Up to `want` bytes of the file, hashed as they pass; 0 at its end.
   Result<std::size_t> read_file_bytes(char* dst, std::size_t want) {
     auto got = read_some(file->fd.get(), dst, want, path);
@@ -338,16 +338,15 @@ struct JsonlStream::Impl {
   }
 };
 
-Status JsonlStream::Impl::take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out) {
+void JsonlStream::Impl::take_lines(std::string_view text, std::int64_t at, std::vector<Document>& out) {
   if (is_valid_utf8(text)) {
     records.add(text, out);
-    return Status();
+    return;
   }
   Utf8Repair fixed = repair_utf8(text);
   if (first_bad < 0) first_bad = at + static_cast<std::int64_t>(fixed.first_bad_offset);
   replaced += fixed.replaced;
   records.add(fixed.text, out);
-  return Status();
 }
 
 JsonlStream::JsonlStream(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
@@ -391,18 +390,14 @@ Result<std::vector<Document>> JsonlStream::next(std::size_t slice_bytes) {
       if (::fstat(m.file->fd.get(), &after) == 0 && (moved(m.file->st, after) || m.file_bytes != m.file->st.st_size))
         return changed_while_read(m.path);
     }
-    if (fresh_at == 0) {  // the checks read_file makes at the start of a file
-      const std::size_t sniff = std::min(fresh.size(), ingest::kBinarySniffBytes);
-      if (const void* nul = std::memchr(fresh.data(), '\0', sniff); nul != nullptr)
-        return Status::Unsupported(m.path + ": binary file (NUL byte at offset " +
-                                   std::to_string(static_cast<const char*>(nul) - fresh.data()) + ")");
-      if (fresh.substr(0, 3) == "\xEF\xBB\xBF") {
-        fresh.remove_prefix(3);
-        fresh_at = 3;
-      }
+    // The checks read_file makes at the start of a file.
+    LODE_RETURN_IF_ERROR(ingest::refuse_binary(fresh, fresh_at, m.path));
+    if (fresh_at == 0 && fresh.substr(0, 3) == "\xEF\xBB\xBF") {
+      fresh.remove_prefix(3);
+      fresh_at = 3;
     }
     if (m.at_end) {  // a last line with no '\n'
-      if (!m.carry.empty() && !m.skipping) LODE_RETURN_IF_ERROR(m.take_lines(m.carry, m.carry_at, out));
+      if (!m.carry.empty() && !m.skipping) m.take_lines(m.carry, m.carry_at, out);
       m.carry.clear();
       break;
     }
@@ -430,15 +425,15 @@ Result<std::vector<Document>> JsonlStream::next(std::size_t slice_bytes) {
         // too few bytes together for any one of them to be too long.
         const std::size_t end = fresh.rfind('\n') + 1;
         if (end <= m.max_line() + 1) {
-          LODE_RETURN_IF_ERROR(m.take_lines(fresh.substr(0, end), fresh_at, out));
+          m.take_lines(fresh.substr(0, end), fresh_at, out);
           fresh.remove_prefix(end);
           fresh_at += static_cast<std::int64_t>(end);
           continue;
         }
-        LODE_RETURN_IF_ERROR(m.take_lines(fresh.substr(0, part), fresh_at, out));
+        m.take_lines(fresh.substr(0, part), fresh_at, out);
       } else {
         m.carry.append(fresh.substr(0, part));
-        LODE_RETURN_IF_ERROR(m.take_lines(m.carry, m.carry_at, out));
+        m.take_lines(m.carry, m.carry_at, out);
         m.carry.clear();
       }
       fresh.remove_prefix(part);
@@ -455,10 +450,7 @@ ReadResult JsonlStream::finish() {
   r.size = m.file_bytes;
   r.mtime_ns = mtime_of(m.file->st);
   r.warnings = m.records.warnings();
-  if (m.replaced > 0)
-    r.warnings.insert(r.warnings.begin(), "invalid UTF-8 at byte " + std::to_string(m.first_bad) + " (" +
-                                              std::to_string(m.replaced) +
-                                              (m.replaced == 1 ? " sequence replaced)" : " sequences replaced)"));
+  if (m.replaced > 0) r.warnings.insert(r.warnings.begin(), ingest::invalid_utf8_warning(m.first_bad, m.replaced));
   return r;
 }
 

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "harness.h"
+#include "ingest/stream_util.h"
 #include "make_files.h"
 
 namespace {
@@ -302,25 +303,9 @@ TEST_CASE("a gzip-compressed JSON Lines file streams in parts like the plain one
   CHECK_FALSE(lode::streams_as_jsonl(gz, static_cast<std::int64_t>(packed.size()), o));
   for (std::size_t slice : {std::size_t{5}, std::size_t{300}, std::size_t{1} << 20}) {
     CAPTURE(slice);
-    auto stream = lode::JsonlStream::open(gz, {});
-    REQUIRE(stream.ok());
-    std::vector<lode::Document> docs;
-    for (;;) {
-      auto part = (*stream)->next(slice);
-      REQUIRE_MESSAGE(part.ok(), part.status().to_string());
-      if (part->empty()) break;
-      for (auto& d : *part) docs.push_back(std::move(d));
-    }
-    const lode::ReadResult done = (*stream)->finish();
-    REQUIRE(docs.size() == whole->documents.size());
-    for (std::size_t i = 0; i < docs.size(); ++i) {
-      CHECK(docs[i].external_id == whole->documents[i].external_id);
-      CHECK(docs[i].body == whole->documents[i].body);
-    }
-    CHECK(done.warnings == whole->warnings);
-    CHECK(done.content_hash == whole->content_hash);
-    CHECK(done.size == static_cast<std::int64_t>(packed.size()));
-    CHECK((*stream)->bytes_read() == done.size);
+    const Streamed streamed = read_streamed(gz, slice);
+    check_same_as_whole(streamed, *whole);
+    CHECK(streamed.finish.size == static_cast<std::int64_t>(packed.size()));
   }
 
   // Indexed in parts, it equals the same file indexed whole.
@@ -338,12 +323,7 @@ TEST_CASE("a gzip-compressed JSON Lines file streams in parts like the plain one
   REQUIRE_FALSE(cut_whole.ok());
   auto stream = lode::JsonlStream::open(gz, {});
   REQUIRE(stream.ok());
-  lode::Status failed;
-  for (int i = 0; i < 1000 && failed.ok(); ++i) {
-    auto part = (*stream)->next(64);
-    if (!part.ok()) failed = part.status();
-    else if (part->empty()) break;
-  }
+  const lode::Status failed = read_rest(**stream, 64).error;
   CHECK(failed.code() == lode::Code::kCorruption);
   CHECK(failed.message() == cut_whole.status().message());
   auto broken = index_parts(s.index(), s.tree(), 80, 9);

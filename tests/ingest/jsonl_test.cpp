@@ -6,12 +6,14 @@
 #include <vector>
 
 #include "lode/ingest.h"
+#include "stream_util.h"
 #include "temp_dir.h"
 
 namespace {
 
 using lode::ReadOptions;
 using lode::testing::TempDir;
+using namespace lode::testing;
 
 lode::ReadResult read_jsonl(const TempDir& d, const std::string& content, const ReadOptions& o = {}) {
   auto r = lode::read_file(d.write("records.jsonl", content), o);
@@ -168,31 +170,6 @@ TEST_CASE("deeply nested or huge lines are handled without crashing") {
   CHECK(r.warnings[1].size() < 300);  // the parser's message is cut short
 }
 
-namespace {
-
-// Everything JsonlStream gives for `path`, `slice` bytes a read.
-struct Streamed {
-  std::vector<lode::Document> documents;
-  lode::ReadResult finish;
-};
-
-Streamed stream_all(const std::string& path, std::size_t slice, const ReadOptions& o = {}) {
-  auto s = lode::JsonlStream::open(path, o);
-  REQUIRE_MESSAGE(s.ok(), s.status().to_string());
-  Streamed out;
-  for (;;) {
-    auto part = (*s)->next(slice);
-    REQUIRE_MESSAGE(part.ok(), part.status().to_string());
-    if (part->empty()) break;
-    for (auto& d : *part) out.documents.push_back(std::move(d));
-  }
-  out.finish = (*s)->finish();
-  CHECK(out.finish.size == (*s)->bytes_read());
-  return out;
-}
-
-}  // namespace
-
 TEST_CASE("read in slices of any size, a file gives the records, warnings and hash of read_file") {
   TempDir d;
   std::string content = "\xEF\xBB\xBF{\"id\": \"a\", \"title\": \"T\\u00e9\", \"text\": \"first r\xC3\xA9sum\xC3\xA9\"}\r\n";
@@ -210,19 +187,7 @@ TEST_CASE("read in slices of any size, a file gives the records, warnings and ha
   for (std::size_t slice : {std::size_t{1}, std::size_t{2}, std::size_t{7}, std::size_t{64}, std::size_t{1000},
                             content.size() + 1}) {
     CAPTURE(slice);
-    const Streamed s = stream_all(path, slice);
-    REQUIRE(s.documents.size() == whole->documents.size());
-    for (std::size_t i = 0; i < s.documents.size(); ++i) {
-      CHECK(s.documents[i].external_id == whole->documents[i].external_id);
-      CHECK(s.documents[i].title == whole->documents[i].title);
-      CHECK(s.documents[i].body == whole->documents[i].body);
-      CHECK(s.documents[i].kind == "jsonl");
-    }
-    CHECK(s.finish.warnings == whole->warnings);
-    CHECK(s.finish.content_hash == whole->content_hash);
-    CHECK(s.finish.size == whole->size);
-    CHECK(s.finish.mtime_ns == whole->mtime_ns);
-    CHECK(s.finish.documents.empty());
+    check_same_as_whole(read_streamed(path, slice), *whole);
   }
 }
 
@@ -234,7 +199,7 @@ TEST_CASE("a streamed line longer than the text limit is skipped, and the lines 
   o.max_text_bytes = 100;
   for (std::size_t slice : {std::size_t{3}, std::size_t{64}, std::size_t{4096}}) {
     CAPTURE(slice);
-    const Streamed s = stream_all(path, slice, o);
+    const Streamed s = read_streamed(path, slice, o);
     REQUIRE(s.documents.size() == 2);
     CHECK(s.documents[0].body == "short one");
     CHECK(s.documents[1].body == "after the long line");
@@ -246,12 +211,16 @@ TEST_CASE("a streamed line longer than the text limit is skipped, and the lines 
 
 TEST_CASE("a streamed file is refused as binary, or when it changes while it is read") {
   TempDir d;
-  auto bin = lode::JsonlStream::open(d.write("bin.jsonl", std::string("{\"text\": \"a\"}\n\0\1\2", 17)), {});
-  REQUIRE(bin.ok());
-  auto part = (*bin)->next(1 << 20);
-  REQUIRE_FALSE(part.ok());
-  CHECK(part.status().code() == lode::Code::kUnsupported);
-  CHECK(part.status().message().find("bin.jsonl: binary file (NUL byte at offset 14)") != std::string::npos);
+  // A NUL in the first 8 KiB refuses the file however the reads fall.
+  const std::string bin_path = d.write("bin.jsonl", std::string("{\"text\": \"a\"}\n\0\1\2", 17));
+  for (std::size_t slice : {std::size_t{1}, std::size_t{5}, std::size_t{1} << 20}) {
+    CAPTURE(slice);
+    auto bin = lode::JsonlStream::open(bin_path, {});
+    REQUIRE(bin.ok());
+    const lode::Status refused = read_rest(**bin, slice).error;
+    CHECK(refused.code() == lode::Code::kUnsupported);
+    CHECK(refused.message() == bin_path + ": binary file (NUL byte at offset 14)");
+  }
 
   const std::string path = d.write("grows.jsonl", "{\"text\": \"one\"}\n{\"text\": \"two\"}\n");
   auto s = lode::JsonlStream::open(path, {});
@@ -263,12 +232,7 @@ TEST_CASE("a streamed file is refused as binary, or when it changes while it is 
     std::ofstream more(path, std::ios::app);
     more << "{\"text\": \"three\"}\n";
   }
-  lode::Status seen;
-  for (int i = 0; i < 10 && seen.ok(); ++i) {
-    auto next = (*s)->next(17);
-    if (!next.ok()) seen = next.status();
-    else if (next->empty()) break;
-  }
+  const lode::Status seen = read_rest(**s, 17).error;
   CHECK(seen.code() == lode::Code::kIOError);
   CHECK(seen.message() == path + ": changed while being read (size or modification time moved)");
 
