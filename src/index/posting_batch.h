@@ -24,7 +24,7 @@
 #include <vector>
 
 #include "index/chunked_vector.h"
-#include "index/slot_table.h"
+#include "common/slot_table.h"
 #include "lode/analysis.h"
 #include "lode/index.h"
 #include "lode/status.h"

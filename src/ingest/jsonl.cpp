@@ -112,28 +112,8 @@ Record read_record(std::string_view line, const ReadOptions& options) {
 
 }  // namespace
 
-JsonlRecords::JsonlRecords(const std::string& path, const ReadOptions& options) : path_(path), options_(options) {}
-
-std::uint64_t* JsonlRecords::id_cell(std::uint64_t hash) {
-  if (2 * (ids_ + 1) > id_hashes_.size()) {
-    std::vector<std::uint64_t> hashes(std::max<std::size_t>(64, 2 * id_hashes_.size()), 0);
-    std::vector<std::uint32_t> lines(hashes.size(), 0);
-    const std::size_t mask = hashes.size() - 1;
-    for (std::size_t i = 0; i < id_hashes_.size(); ++i) {
-      if (id_hashes_[i] == 0) continue;
-      std::size_t j = id_hashes_[i] & mask;
-      while (hashes[j] != 0) j = (j + 1) & mask;
-      hashes[j] = id_hashes_[i];
-      lines[j] = id_lines_[i];
-    }
-    id_hashes_.swap(hashes);
-    id_lines_.swap(lines);
-  }
-  const std::size_t mask = id_hashes_.size() - 1;
-  std::size_t j = hash & mask;
-  while (id_hashes_[j] != 0 && id_hashes_[j] != hash) j = (j + 1) & mask;
-  return &id_hashes_[j];
-}
+JsonlRecords::JsonlRecords(const std::string& path, const ReadOptions& options, std::size_t max_checked_ids)
+    : path_(path), options_(options), max_checked_ids_(max_checked_ids) {}
 
 void JsonlRecords::bad_line(const std::string& reason) {
   if (++bad_lines_ <= kMaxLineWarnings) warnings_.push_back("line " + std::to_string(line_no_) + ": " + reason);
@@ -145,26 +125,24 @@ void JsonlRecords::skip_line(const std::string& reason) {
   bad_line(reason);
 }
 
-// Ids are kept as 64-bit hashes with their first line, 12 bytes a cell at
-// most half full, whatever the id's length; a false repeat needs a hash
-// collision, about 3 in 10^8 for a file of a million records. Past
-// kMaxCheckedIds the check stops, so memory stays bounded (48 MiB).
+// Ids are kept as 64-bit hashes with their first line, whatever the id's
+// length; a false repeat needs a hash collision, about 3 in 10^8 for a file
+// of a million records. Past max_checked_ids_ the check stops, so memory stays
+// bounded (56 MiB).
 void JsonlRecords::check_id(const std::string& id) {
-  if (ids_ >= kMaxCheckedIds) {
+  if (id_hashes_.size() >= max_checked_ids_) {
     unchecked_ = true;
     return;
   }
-  std::uint64_t h = XXH3_64bits(id.data(), id.size());
-  h += h == 0;  // 0 marks an empty cell
-  std::uint64_t* cell = id_cell(h);
-  const auto at = static_cast<std::size_t>(cell - id_hashes_.data());
-  if (*cell == 0) {
-    *cell = h;
-    id_lines_[at] = static_cast<std::uint32_t>(std::min<std::size_t>(line_no_, UINT32_MAX));
-    ++ids_;
+  const std::uint64_t h = XXH3_64bits(id.data(), id.size());
+  const std::uint32_t slot = ids_.find(h, [&](std::uint32_t s) { return id_hashes_[s] == h; });
+  if (slot == SlotTable::kNone) {
+    ids_.insert(h, static_cast<std::uint32_t>(id_hashes_.size()));
+    id_hashes_.push_back(h);
+    id_lines_.push_back(static_cast<std::uint32_t>(std::min<std::size_t>(line_no_, UINT32_MAX)));
   } else if (duplicates_++ == 0) {
     first_duplicate_ = "id \"" + std::string(cut_utf8(id, kMaxReasonBytes)) + "\" on line " +
-                       std::to_string(line_no_) + " (first seen on line " + std::to_string(id_lines_[at]) + ")";
+                       std::to_string(line_no_) + " (first seen on line " + std::to_string(id_lines_[slot]) + ")";
   }
 }
 
@@ -197,8 +175,8 @@ std::vector<std::string> JsonlRecords::warnings() const {
                   "; every record is kept");
   }
   if (unchecked_)
-    out.push_back("repeated ids were looked for among the first " + std::to_string(kMaxCheckedIds) +
-                  " records only");
+    out.push_back("repeated ids were looked for among the first " + std::to_string(max_checked_ids_) +
+                  " distinct ids only");
   if (!any_record_line_) out.push_back("empty file");
   return out;
 }

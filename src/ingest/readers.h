@@ -11,6 +11,7 @@
 #include <string_view>
 #include <vector>
 
+#include "common/slot_table.h"
 #include "lode/ingest.h"
 #include "lode/status.h"
 
@@ -35,11 +36,13 @@ Parsed read_jsonl(std::string_view text, const std::string& path, const ReadOpti
 
 // The state of reading one JSON Lines file, fed its lines in order in one
 // piece (read_jsonl) or in slices (JsonlStream): line numbers, bad lines and
-// repeated ids. Memory: 24-48 bytes a record for the repeated-id check, which
-// covers the first kMaxCheckedIds records (at most 48 MiB).
+// repeated ids. Memory: 28-44 bytes a record for the repeated-id check, which
+// covers the first kMaxCheckedIds distinct ids (at most 56 MiB).
 class JsonlRecords {
  public:
-  JsonlRecords(const std::string& path, const ReadOptions& options);
+  static constexpr std::size_t kMaxCheckedIds = std::size_t{1} << 21;
+  // `max_checked_ids`: records whose ids are checked for repeats (a test sets it low).
+  JsonlRecords(const std::string& path, const ReadOptions& options, std::size_t max_checked_ids = kMaxCheckedIds);
   // Reads the lines of `text` into `out`. REQUIRES: valid UTF-8 ending at a
   // line end (or at the end of the file).
   void add(std::string_view text, std::vector<Document>& out);
@@ -50,10 +53,8 @@ class JsonlRecords {
   std::vector<std::string> warnings() const;
 
  private:
-  static constexpr std::size_t kMaxCheckedIds = std::size_t{1} << 21;
   void bad_line(const std::string& reason);
   void check_id(const std::string& id);
-  std::uint64_t* id_cell(std::uint64_t hash);  // the cell holding `hash`, or the empty one it would go in
 
   std::string path_;
   const ReadOptions& options_;
@@ -63,11 +64,12 @@ class JsonlRecords {
   bool any_record_line_ = false;
   std::string first_duplicate_;
   std::vector<std::string> warnings_;
-  // Open addressing over id hashes (0: empty) with each id's first line.
+  // Each checked id's hash and first line, by slot; `ids_` finds the slot.
+  SlotTable ids_;
   std::vector<std::uint64_t> id_hashes_;
   std::vector<std::uint32_t> id_lines_;  // line numbers past 2^32 - 1 read as that
-  std::size_t ids_ = 0;
-  bool unchecked_ = false;  // records past kMaxCheckedIds went unchecked
+  std::size_t max_checked_ids_;
+  bool unchecked_ = false;  // records past max_checked_ids_ went unchecked
 };
 
 // Readers of the raw file bytes. Unlike the text readers they can fail: the

@@ -3,7 +3,7 @@
 #include <map>
 #include <string>
 
-#include "index/slot_table.h"
+#include "common/slot_table.h"
 #include "util.h"
 
 using namespace lode;

@@ -5,6 +5,7 @@
 #include <string>
 #include <vector>
 
+#include "ingest/readers.h"
 #include "lode/ingest.h"
 #include "stream_util.h"
 #include "temp_dir.h"
@@ -254,4 +255,25 @@ TEST_CASE("streams_as_jsonl: JSON Lines by name and content, above the size set"
   CHECK_FALSE(lode::streams_as_jsonl(d.path("gone.jsonl"), 26, o));
   o.stream_jsonl_bytes = 0;
   CHECK_FALSE(lode::streams_as_jsonl(big, 26, o));
+}
+
+TEST_CASE("repeated ids are looked for among a bounded number of records, and the warning says so") {
+  const lode::ReadOptions o;
+  std::vector<lode::Document> docs;
+  // Ids a, b, c are checked; the repeat of b (record 3) is found; the repeat
+  // of a after the cap (record 5) is not, and a warning says why.
+  lode::ingest::JsonlRecords records("r.jsonl", o, 3);
+  records.add("{\"id\":\"a\",\"text\":\"x\"}\n{\"id\":\"b\",\"text\":\"x\"}\n{\"id\":\"b\",\"text\":\"x\"}\n"
+              "{\"id\":\"c\",\"text\":\"x\"}\n{\"id\":\"a\",\"text\":\"x\"}\n",
+              docs);
+  CHECK(docs.size() == 5);
+  CHECK(records.warnings() ==
+        std::vector<std::string>{"1 duplicate id(s), first id \"b\" on line 3 (first seen on line 2); every record is kept",
+                                 "repeated ids were looked for among the first 3 distinct ids only"});
+  // Under the cap there is no such warning.
+  lode::ingest::JsonlRecords all("r.jsonl", o);
+  docs.clear();
+  all.add("{\"id\":\"a\",\"text\":\"x\"}\n{\"id\":\"a\",\"text\":\"x\"}\n", docs);
+  CHECK(all.warnings() ==
+        std::vector<std::string>{"1 duplicate id(s), first id \"a\" on line 2 (first seen on line 1); every record is kept"});
 }

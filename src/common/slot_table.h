@@ -1,9 +1,11 @@
-// SlotTable: the writer's batch dictionary, (field, term) -> slot in its
-// vector of term buffers. Open addressing over 64-bit cells (high half: hash
-// tag, low half: slot + 1), so a lookup touches one cell array and compares a
-// term only when the tags agree; std::unordered_map's node per entry cost a
-// cache miss per token on large batches (bench/: the largest self time).
-// The caller owns the terms; `same(slot)` says whether a slot holds the key.
+// SlotTable: a key -> slot map over keys the caller keeps in its own vector
+// (the slot is the key's index there). Used by the writer's batch dictionary
+// ((field, term) -> term buffer) and by the JSON Lines repeated-id check.
+// Open addressing over 64-bit cells (high half: hash tag, low half: slot + 1),
+// so a lookup touches one cell array and compares a key only when the tags
+// agree; std::unordered_map's node per entry cost a cache miss per token on
+// large batches (bench/: the largest self time). `same(slot)` says whether a
+// slot holds the key looked up.
 #pragma once
 
 #include <cstdint>
