@@ -265,11 +265,14 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
       }
 
   // Decide which files need reading.
-  // (file, its record in `held` or null): pointers, as a crawl can list a
-  // million files.
-  std::vector<std::pair<const FileInfo*, const FileRecord*>> todo;
+  // Pointers, as a crawl can list a million files.
+  struct Todo {
+    const FileInfo* info;
+    const FileRecord* old;  // its record in `held`, or null
+    bool stream;            // a JSON Lines file read in parts
+  };
+  std::vector<Todo> todo;
   std::vector<ReadJob> jobs;
-  std::vector<bool> streamed;  // per todo entry: a JSON Lines file read in parts
   for (const FileInfo& info : crawled->files) {
     prog_.bytes_total += static_cast<std::uint64_t>(info.size);
     auto it = held->find(info.path);
@@ -283,9 +286,8 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     if (!old)
       for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
         job.rename_hashes.push_back(m->second.hash);
-    streamed.push_back(job.stream);
+    todo.push_back(Todo{&info, old, job.stream});
     jobs.push_back(std::move(job));
-    todo.emplace_back(&info, old);
   }
   prog_.files_total = crawled->files.size();
   prog_.files_done = crawled->files.size() - todo.size();
@@ -299,12 +301,12 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
         report_.cancelled = true;
         break;
       }
-      const FileInfo& info = *todo[i].first;
+      const FileInfo& info = *todo[i].info;
       prog_.current = info.path;
       if (progress_) progress_(prog_);
       const std::optional<FileRecord> old =
-          todo[i].second != nullptr ? std::optional<FileRecord>(*todo[i].second) : std::nullopt;
-      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), old, streamed[i]));
+          todo[i].old != nullptr ? std::optional<FileRecord>(*todo[i].old) : std::nullopt;
+      LODE_RETURN_IF_ERROR(apply(info, pool.take(i), old, todo[i].stream));
       ++prog_.files_done;
       prog_.bytes_done += static_cast<std::uint64_t>(info.size);
     }
