@@ -130,6 +130,10 @@ struct CollectionStats {
   std::uint64_t postings = 0;   // sum of df over terms (live postings)
   std::uint64_t dead_documents = 0;  // replaced or deleted, not yet compacted
   std::uint64_t bytes_on_disk = 0;   // index file + WAL
+  // Commits so far (0 for an index written before the counter existed). Equal
+  // generations of one index hold equal contents: a cache of results or of
+  // decoded data keyed by it stays valid until it moves.
+  std::uint64_t generation = 0;
   // Average field length over live docs (0 when empty).
   double average_length(Field f) const;
 };

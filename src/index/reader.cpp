@@ -146,6 +146,7 @@ CollectionStats IndexReader::stats() const {
   s.terms = c.terms;
   s.postings = c.postings;
   s.dead_documents = c.dead_documents;
+  s.generation = c.generation;
   s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
   return s;
 }

@@ -139,6 +139,7 @@ Result<Counters> load_counters(sql::Db& db) {
     else if (key == "terms") c.terms = v;
     else if (key == "postings") c.postings = v;
     else if (key == "next_doc_id") c.next_doc_id = v;
+    else if (key == "generation") c.generation = v;
   }
   LODE_RETURN_IF_ERROR(st->status());
   return c;
@@ -153,6 +154,7 @@ Status store_counters(sql::Db& db, const Counters& c) {
   LODE_RETURN_IF_ERROR(put_meta(db, "files", i(c.files)));
   LODE_RETURN_IF_ERROR(put_meta(db, "terms", i(c.terms)));
   LODE_RETURN_IF_ERROR(put_meta(db, "postings", i(c.postings)));
+  LODE_RETURN_IF_ERROR(put_meta(db, "generation", i(c.generation)));
   return put_meta(db, "next_doc_id", i(c.next_doc_id));
 }
 

@@ -22,6 +22,7 @@ struct Counters {
   std::uint64_t terms = 0;
   std::uint64_t postings = 0;
   std::uint64_t next_doc_id = 1;  // doc id 0 is never used
+  std::uint64_t generation = 0;   // commits so far: caches keyed by it stay valid until it moves
 };
 Result<Counters> load_counters(sql::Db& db);
 Status store_counters(sql::Db& db, const Counters& c);

@@ -383,6 +383,7 @@ Status IndexWriter::Impl::flush() {
   // 4. Norms and counters.
   for (auto& [chunk, data] : dirty_norms)
     LODE_RETURN_IF_ERROR(q_put_norms.bind(1, std::int64_t{chunk}).bind_blob(2, data).run());
+  ++counters.generation;
   LODE_RETURN_IF_ERROR(schema::store_counters(db, counters));
   LODE_RETURN_IF_ERROR(db.exec("COMMIT"));
   in_txn = false;
@@ -612,6 +613,7 @@ CollectionStats IndexWriter::stats() const {
   s.terms = c.terms;
   s.postings = c.postings;
   s.dead_documents = c.dead_documents;
+  s.generation = c.generation;
   s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
   return s;
 }

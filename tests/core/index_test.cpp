@@ -288,10 +288,13 @@ TEST_CASE("a reader's scope is one snapshot while a writer commits") {
   build_index(index, {{"One", "first document"}});
   auto reader = IndexReader::open(index);
   REQUIRE(reader.ok());
+  std::uint64_t generation = 0;
   {
     auto scope = (*reader)->begin();
     REQUIRE(scope.ok());
     CHECK((*reader)->stats().documents == 1);
+    generation = (*reader)->stats().generation;
+    CHECK(generation >= 1);
     auto w = IndexWriter::open(index, std::nullopt);
     REQUIRE(w.ok());
     REQUIRE((*w)->put_file(FileRecord{"/v/2", "/v", 1, 1, "h", "text"}, {doc_input("2", "Two", "second")}).ok());
@@ -300,9 +303,11 @@ TEST_CASE("a reader's scope is one snapshot while a writer commits") {
     auto t = (*reader)->term(Field::kBody, "second");
     REQUIRE(t.ok());
     CHECK(!t->has_value());
+    CHECK((*reader)->stats().generation == generation);  // the snapshot's, not the writer's
   }
   auto scope = (*reader)->begin();
   CHECK((*reader)->stats().documents == 2);
+  CHECK((*reader)->stats().generation == generation + 1);  // one commit later
 }
 
 TEST_CASE("analyzer settings are fixed at creation") {
