@@ -9,7 +9,9 @@
 //   tfidf-rank    lnc.ltc, ranking only
 //   *-count-all   the two ranking-only runs without pruning (every match
 //                 scored; the exhaustive baseline for lode/topk.h)
-// Baseline beside them: lode::parse_query alone (syntax + analysis, no index).
+// Baselines beside them: lode::parse_query alone (syntax + analysis, no
+// index), and varint-bm25-exhaustive (varint_baseline.h: an exhaustive
+// one-field BM25 over plain varint blobs in memory, the naive reference).
 // Each configuration runs the whole set once as warm-up (reported apart,
 // excluded from the figures), then --repeat more times (fewer once --budget-s
 // is spent; at least one); every query of every
@@ -30,6 +32,7 @@
 #include "lode/ranking.h"
 #include "measure.h"
 #include "query_set.h"
+#include "varint_baseline.h"
 
 using nlohmann::json;
 using namespace lode;
@@ -133,6 +136,18 @@ int run(const Args& a) {
         auto parsed = parse_query(q, **analyzer);
         return parsed ? static_cast<long long>(parsed->clauses.size()) : -1;
       }));
+  {
+    auto scope = (*reader)->begin();
+    if (!scope) return fail(scope.status());
+    std::vector<std::string> texts;
+    for (auto& q : *set) texts.push_back(q.text);
+    auto baseline = VarintBaseline::build(**reader, **analyzer, texts);
+    if (!baseline) return fail(baseline.status());
+    std::fprintf(stderr, "bench_query: varint baseline holds %.1f MB\n", static_cast<double>(baseline->bytes()) / 1e6);
+    add("varint-bm25-exhaustive", measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
+          return baseline->run(q, 10);
+        }));
+  }
   struct Config {
     const char* name;
     Model model;

@@ -1,9 +1,9 @@
 // lode/index.h — the inverted index in one SQLite file.
 //
-// Layout (documented byte by byte in docs/index-format.md, format version 2):
+// Layout (documented byte by byte in docs/index-format.md, format version 4):
 // documents with per-field lengths and a live flag, a term dictionary with
 // exact df/cf per (field, term), postings in blocks of up to 128 documents with
-// per-block max tf and min field length, positions per block, a forward index
+// per-block bound points (lode/postings.h), positions per segment, a forward index
 // (document -> term ids and tfs per field) and the stored, compressed text.
 //
 // Writing: one IndexWriter per index file at a time, across processes (a lock
@@ -31,11 +31,11 @@
 #include <vector>
 
 #include "lode/analysis.h"
+#include "lode/postings.h"
 #include "lode/status.h"
 
 namespace lode {
 
-using DocId = std::uint32_t;
 using TermId = std::int64_t;
 
 // Indexed fields. Stored values are fixed forever: never renumber.
@@ -45,8 +45,8 @@ inline constexpr std::array<Field, kFieldCount> kAllFields = {Field::kTitle, Fie
 std::string_view field_name(Field f);                        // "title", "body"
 std::optional<Field> parse_field(std::string_view name);     // nullopt if unknown
 
-inline constexpr int kIndexFormatVersion = 3;  // 2: doc_meta, problems; 3: postings in append order
-inline constexpr std::uint32_t kBlockSize = 128;  // documents per postings block
+// 2: doc_meta, problems; 3: postings in append order; 4: bit-packed segments with bound points
+inline constexpr int kIndexFormatVersion = 4;
 
 // Settings fixed when an index is created and recorded in it.
 struct IndexSettings {
@@ -226,34 +226,57 @@ struct TermInfo {
   std::uint64_t cf = 0;  // total occurrences in live documents
 };
 
-// Cursor over one term's postings, in increasing document order. Dead
-// documents are included; callers check liveness (IndexReader::live).
-// valid()/doc()/tf() describe the current posting; an I/O or decoding error
-// makes valid() false and status() non-ok.
-class PostingCursor {
+// Per-document field lengths and liveness of one snapshot, as flat arrays:
+// the query loop reads them per candidate, so no lookup may stand between.
+// Loaded once per commit generation and shared by the readers of a
+// ReaderCache. Documents at or past limit() read as dead with length 0.
+class DocNorms {
  public:
-  virtual ~PostingCursor() = default;
-  virtual bool valid() const = 0;
-  virtual DocId doc() const = 0;          // REQUIRES: valid()
-  virtual std::uint32_t tf() const = 0;   // REQUIRES: valid()
-  virtual void next() = 0;                // REQUIRES: valid()
-  // Moves to the first posting with doc >= target (never backwards).
-  virtual void seek(DocId target) = 0;
-  // Positions of the term in the current document, ascending. REQUIRES: valid().
-  virtual Result<std::vector<std::uint32_t>> positions() = 0;
-  // Block metadata for pruning: the current block's last doc, max tf and the
-  // minimum field length among its documents. REQUIRES: valid().
-  virtual DocId block_last_doc() const = 0;
-  virtual std::uint32_t block_max_tf() const = 0;
-  virtual std::uint32_t block_min_length() const = 0;
-  virtual Status status() const = 0;
+  bool live(DocId d) const { return d < limit_ && (live_[d >> 6] >> (d & 63) & 1) != 0; }
+  std::uint32_t length(DocId d, Field f) const { return d < limit_ ? length_[static_cast<std::size_t>(f)][d] : 0; }
+  DocId limit() const { return limit_; }
+  std::size_t memory() const { return (length_[0].capacity() + length_[1].capacity()) * 4 + live_.capacity() * 8; }
+
+ private:
+  friend struct DocNormsLoader;
+  DocId limit_ = 0;
+  std::array<std::vector<std::uint32_t>, kFieldCount> length_;
+  std::vector<std::uint64_t> live_;
+};
+
+// What readers of one index may share within a process (a server's worker
+// threads): the norms and decoded postings lists of the newest commit
+// generation, postings up to a byte budget (least recently used go first).
+// Thread-safe. Entries of an older generation are dropped when a newer one
+// is first seen.
+class ReaderCache {
+ public:
+  explicit ReaderCache(std::size_t postings_bytes = std::size_t{128} << 20);
+  ~ReaderCache();
+  ReaderCache(const ReaderCache&) = delete;
+  ReaderCache& operator=(const ReaderCache&) = delete;
+  struct Counts {
+    std::uint64_t hits = 0, misses = 0;
+    std::size_t bytes = 0;  // postings lists held
+  };
+  Counts counts() const;
+
+ private:
+  friend class IndexReader;
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
+
+struct ReaderOptions {
+  // Shared with other readers of the same index; null: the reader makes its own.
+  std::shared_ptr<ReaderCache> cache;
 };
 
 class IndexReader {
  public:
   // Errors: NotFound (no index at path; message says how to make one),
   // Corruption (not a lode index / newer format), IOError.
-  static Result<std::unique_ptr<IndexReader>> open(const std::string& path);
+  static Result<std::unique_ptr<IndexReader>> open(const std::string& path, const ReaderOptions& options = {});
   ~IndexReader();
   IndexReader(const IndexReader&) = delete;
   IndexReader& operator=(const IndexReader&) = delete;
@@ -278,9 +301,22 @@ class IndexReader {
   // nullopt when the term has never been indexed in that field.
   Result<std::optional<TermInfo>> term(Field field, std::string_view term);
   Result<TermInfo> term_by_id(TermId id);
-  // A cursor over `term`'s postings; owned by the caller, valid within the scope.
+  // A cursor over `term`'s postings; owned by the caller, valid within the
+  // scope. A read or decoding error gives a cursor that is not valid() and
+  // carries it in status().
   std::unique_ptr<PostingCursor> postings(const TermInfo& term);
+  // The postings lists of `terms`, in their order, in one call (the set-based
+  // read a query makes); each may be shared with other readers of the cache.
+  Result<std::vector<std::shared_ptr<const PostingList>>> postings_lists(const std::vector<TermId>& terms);
+  // A cursor over a list from postings_lists(), reading positions through
+  // this reader. Valid within the scope.
+  std::unique_ptr<PostingCursor> cursor(std::shared_ptr<const PostingList> list);
 
+  // Lengths and liveness of every document of the snapshot. Errors: the
+  // norms could not be read (IOError, Corruption).
+  Result<const DocNorms*> norms();
+  // Shortcuts into norms(); a document whose norms cannot be read reads as
+  // dead with length 0 (use norms() to see the error).
   bool live(DocId doc);
   std::uint32_t length(DocId doc, Field field);
   Result<DocumentInfo> document(DocId doc);

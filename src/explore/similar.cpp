@@ -73,8 +73,8 @@ class CandidateModel final : public TopKModel {
   std::vector<Term> terms;
 
   double term_bound(std::size_t i) const override { return part(i, static_cast<double>(terms[i].cf), 1); }
-  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const override {
-    return part(i, max_tf, min_length);
+  double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const override {
+    return part(i, tf, length);
   }
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return part(i, tf, length(doc)); }
   Result<bool> admit(DocId doc) override { return doc != exclude_ && reader_.live(doc); }

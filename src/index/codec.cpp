@@ -45,34 +45,6 @@ bool Reader::bytes(std::size_t n, std::string_view& out) {
   return true;
 }
 
-std::string encode_block(const Block& b) {
-  std::string out;
-  out.reserve(b.docs.size() * 3);
-  for (std::size_t i = 1; i < b.docs.size(); ++i) put_varint(out, b.docs[i] - b.docs[i - 1]);
-  for (auto tf : b.tfs) put_varint(out, tf);
-  return out;
-}
-
-Status decode_block(std::string_view data, DocId first_doc, std::uint32_t n, Block& out) {
-  out.docs.resize(n);
-  out.tfs.resize(n);
-  if (n == 0 || n > kBlockSize) return Status::Corruption("postings block: bad count " + std::to_string(n));
-  Reader r(data);
-  out.docs[0] = first_doc;
-  for (std::uint32_t i = 1; i < n; ++i) {
-    std::uint32_t d = 0;
-    if (!r.varint32(d) || d == 0 || out.docs[i - 1] > 0xffffffffu - d)
-      return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": bad doc delta");
-    out.docs[i] = out.docs[i - 1] + d;
-  }
-  for (std::uint32_t i = 0; i < n; ++i) {
-    if (!r.varint32(out.tfs[i]) || out.tfs[i] == 0)
-      return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": bad tf");
-  }
-  if (!r.at_end()) return Status::Corruption("postings block at doc " + std::to_string(first_doc) + ": trailing bytes");
-  return Status();
-}
-
 Status split_positions(std::string_view data, const std::vector<std::uint32_t>& tfs,
                        std::vector<std::uint32_t>& starts) {
   starts.clear();

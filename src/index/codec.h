@@ -47,15 +47,6 @@ class Reader {
   bool failed_ = false;
 };
 
-// A postings block: n docs ascending from first_doc, their tfs.
-// Layout: varint (doc[i] - doc[i-1]) for i in 1..n-1, then varint tf[i] for i in 0..n-1.
-struct Block {
-  std::vector<DocId> docs;
-  std::vector<std::uint32_t> tfs;
-};
-std::string encode_block(const Block& b);
-Status decode_block(std::string_view data, DocId first_doc, std::uint32_t n, Block& out);
-
 // Positions of a block: for each doc in order, tf varints of position deltas
 // (first from 0). `starts` receives each doc's byte offset into the blob.
 Status split_positions(std::string_view data, const std::vector<std::uint32_t>& tfs,

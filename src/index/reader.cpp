@@ -1,10 +1,11 @@
 // IndexReader: snapshot reads over the SQLite index.
 #include <filesystem>
+#include <list>
+#include <mutex>
 #include <unordered_map>
 #include <variant>
 
 #include "index/codec.h"
-#include "index/cursor.h"
 #include "index/schema.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
@@ -25,14 +26,103 @@ double CollectionStats::average_length(Field f) const {
                               static_cast<double>(documents);
 }
 
-struct IndexReader::Impl {
+// Fills a DocNorms from the norms rows (a friend of DocNorms).
+struct DocNormsLoader {
+  static Result<std::shared_ptr<const DocNorms>> load(sql::Stmt& q, DocId limit) {
+    auto n = std::make_shared<DocNorms>();
+    n->limit_ = limit;
+    for (auto& l : n->length_) l.assign(limit, 0);
+    n->live_.assign((std::size_t{limit} + 63) / 64, 0);
+    while (q.step()) {
+      const auto chunk = static_cast<std::uint64_t>(q.i64(0));
+      const std::string_view data = q.blob(1);
+      const std::uint64_t first = chunk * codec::kNormsPerChunk;
+      for (std::uint32_t slot = 0; slot < codec::kNormsPerChunk && first + slot < limit; ++slot) {
+        if ((slot + 1) * codec::kNormEntryBytes > data.size()) break;  // a short blob: the rest not live
+        const codec::NormEntry e = codec::get_norm(data, slot);
+        const auto d = static_cast<DocId>(first + slot);
+        for (std::size_t f = 0; f < kFieldCount; ++f) n->length_[f][d] = e.length[f];
+        if (e.live) n->live_[d >> 6] |= std::uint64_t{1} << (d & 63);
+      }
+    }
+    Status s = q.status();
+    q.reset();
+    if (!s.ok()) return s;
+    return std::shared_ptr<const DocNorms>(std::move(n));
+  }
+};
+
+struct ReaderCache::Impl {
+  struct Entry {
+    std::shared_ptr<const PostingList> list;
+    std::list<TermId>::iterator lru;
+  };
+  std::mutex mu;
+  const std::size_t budget;
+  std::uint64_t generation = ~std::uint64_t{0};  // of everything held
+  std::shared_ptr<const DocNorms> norms;
+  std::unordered_map<TermId, Entry> lists;
+  std::list<TermId> lru;  // most recently used first
+  std::size_t bytes = 0;
+  Counts counts;
+
+  explicit Impl(std::size_t b) : budget(b) {}
+  // REQUIRES: mu held. Drops everything of another generation.
+  void at_generation(std::uint64_t g) {
+    if (g == generation) return;
+    generation = g;
+    norms.reset();
+    lists.clear();
+    lru.clear();
+    bytes = 0;
+  }
+  std::shared_ptr<const PostingList> find(std::uint64_t g, TermId id) {
+    std::lock_guard lock(mu);
+    at_generation(g);
+    auto it = lists.find(id);
+    if (it == lists.end()) {
+      ++counts.misses;
+      return nullptr;
+    }
+    ++counts.hits;
+    lru.splice(lru.begin(), lru, it->second.lru);
+    return it->second.list;
+  }
+  void put(std::uint64_t g, TermId id, const std::shared_ptr<const PostingList>& list) {
+    std::lock_guard lock(mu);
+    at_generation(g);
+    const std::size_t size = list->memory();
+    if (size > budget / 4 || lists.count(id)) return;  // one list may not push out everything
+    while (bytes + size > budget && !lru.empty()) {
+      auto victim = lists.find(lru.back());
+      bytes -= victim->second.list->memory();
+      lists.erase(victim);
+      lru.pop_back();
+    }
+    lru.push_front(id);
+    lists.emplace(id, Entry{list, lru.begin()});
+    bytes += size;
+  }
+};
+
+ReaderCache::ReaderCache(std::size_t postings_bytes) : impl_(std::make_unique<Impl>(postings_bytes)) {}
+ReaderCache::~ReaderCache() = default;
+
+ReaderCache::Counts ReaderCache::counts() const {
+  std::lock_guard lock(impl_->mu);
+  Counts c = impl_->counts;
+  c.bytes = impl_->bytes;
+  return c;
+}
+
+struct IndexReader::Impl final : PositionSource {
   sql::Db db;
   IndexSettings settings;
   schema::Counters counters;
   bool in_scope = false;
-  std::int64_t data_version = -1;
-  std::unordered_map<std::uint32_t, std::string> norms;  // chunk -> bytes, this snapshot
-  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_version, q_pages;
+  std::shared_ptr<ReaderCache> cache;
+  std::shared_ptr<const DocNorms> norms;  // this snapshot's, once loaded
+  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_pages, q_segments, q_positions;
 
   Status prepare_all() {
     return db.prepare_all({
@@ -46,30 +136,37 @@ struct IndexReader::Impl {
         {&q_external, "SELECT doc_id FROM docs WHERE external_id = ? AND live = 1 ORDER BY doc_id LIMIT 1"},
         {&q_text, "SELECT title, body FROM doc_text WHERE doc_id = ?"},
         {&q_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
-        {&q_norms, "SELECT data FROM norms WHERE chunk = ?"},
-        {&q_version, "PRAGMA data_version"},
+        {&q_norms, "SELECT chunk, data FROM norms ORDER BY chunk"},
+        {&q_segments, "SELECT seg_id, first_doc, last_doc, count, head, data FROM postings WHERE term_id = ? "
+                      "ORDER BY first_doc"},
+        {&q_positions, "SELECT data FROM positions WHERE seg_id = ?"},
     });
   }
 
-  // The last chunk used, remembered: a posting walk asks for neighbouring
-  // documents, mostly of one chunk. (Map nodes do not move on insert.)
-  static constexpr std::uint32_t kNoChunk = ~std::uint32_t{0};
-  std::uint32_t last_chunk = kNoChunk;
-  const std::string* last_data = nullptr;
+  Result<std::string> segment_positions(std::int64_t key) override {
+    q_positions.bind(1, key);
+    auto row = sql::one_row(q_positions, "positions of postings segment " + std::to_string(key));
+    if (!row) return Status::Corruption(row.status().message());
+    return std::string(q_positions.blob(0));
+  }
 
-  const std::string& chunk(std::uint32_t c) {
-    if (c == last_chunk) return *last_data;
-    auto it = norms.find(c);
-    if (it == norms.end()) {
-      std::string data;
-      q_norms.bind(1, std::int64_t{c});
-      if (q_norms.step()) data = std::string(q_norms.blob(0));
-      q_norms.reset();
-      it = norms.emplace(c, std::move(data)).first;
-    }
-    last_chunk = c;
-    last_data = &it->second;
-    return it->second;
+  Result<std::shared_ptr<const PostingList>> load_list(TermId id) {
+    const std::uint64_t g = counters.generation;
+    if (auto hit = cache->impl_->find(g, id)) return hit;
+    std::vector<PostingList::StoredSegment> segs;
+    q_segments.bind(1, id);
+    while (q_segments.step())
+      segs.push_back(PostingList::StoredSegment{q_segments.i64(0), static_cast<DocId>(q_segments.i64(1)),
+                                                static_cast<DocId>(q_segments.i64(2)),
+                                                static_cast<std::uint32_t>(q_segments.i64(3)),
+                                                std::string(q_segments.blob(4)), std::string(q_segments.blob(5))});
+    Status s = q_segments.status();
+    q_segments.reset();
+    if (!s.ok()) return s;
+    auto list = PostingList::build(std::move(segs), "term " + std::to_string(id));
+    if (!list) return list.status();
+    cache->impl_->put(g, id, *list);
+    return list;
   }
 };
 
@@ -78,11 +175,12 @@ IndexReader::~IndexReader() {
   if (impl_ && impl_->in_scope) end_scope();
 }
 
-Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path) {
+Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path, const ReaderOptions& options) {
   std::error_code ec;
   if (!std::filesystem::exists(path, ec))
     return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
   auto impl = std::make_unique<Impl>();
+  impl->cache = options.cache ? options.cache : std::make_shared<ReaderCache>();
   auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
   if (!db) {
     db = sql::Db::open(path, SQLITE_OPEN_READONLY);
@@ -111,27 +209,18 @@ Result<IndexReader::ReadScope> IndexReader::begin() {
   LODE_RETURN_IF_ERROR(m.db.exec("BEGIN"));
   m.in_scope = true;
   ReadScope scope(this);
-  // The first read fixes the snapshot; data_version tells whether caches still hold.
+  // The first read fixes the snapshot, and its generation which caches are valid.
   auto counters = schema::load_counters(m.db);
   if (!counters) return counters.status();
   m.counters = counters.value();
-  std::int64_t version = -1;
-  if (m.q_version.step()) version = m.q_version.i64(0);
-  m.q_version.reset();
-  if (version != m.data_version) {
-    m.norms.clear();
-    m.last_chunk = Impl::kNoChunk;
-    m.last_data = nullptr;
-    m.data_version = version;
-  }
+  m.norms.reset();  // loaded again (or found in the cache) when first asked for
   return scope;
 }
 
 void IndexReader::end_scope() {
   (void)impl_->db.exec("COMMIT");
   impl_->in_scope = false;
-  // Another connection may commit before our next scope; norms are revalidated
-  // by data_version there, so they can stay.
+  impl_->norms.reset();
 }
 
 const IndexSettings& IndexReader::settings() const { return impl_->settings; }
@@ -177,16 +266,54 @@ Result<TermInfo> IndexReader::term_by_id(TermId id) {
 }
 
 std::unique_ptr<PostingCursor> IndexReader::postings(const TermInfo& term) {
-  return make_block_cursor(impl_->db, term.id);
+  auto list = impl_->load_list(term.id);
+  if (!list) return std::make_unique<PostingCursor>(list.status());
+  return cursor(std::move(list).value());
+}
+
+Result<std::vector<std::shared_ptr<const PostingList>>> IndexReader::postings_lists(const std::vector<TermId>& terms) {
+  std::vector<std::shared_ptr<const PostingList>> out;
+  out.reserve(terms.size());
+  for (TermId id : terms) {
+    auto list = impl_->load_list(id);
+    if (!list) return list.status();
+    out.push_back(std::move(list).value());
+  }
+  return out;
+}
+
+std::unique_ptr<PostingCursor> IndexReader::cursor(std::shared_ptr<const PostingList> list) {
+  return std::make_unique<PostingCursor>(std::move(list), impl_.get());
+}
+
+Result<const DocNorms*> IndexReader::norms() {
+  auto& m = *impl_;
+  if (m.norms) return m.norms.get();
+  ReaderCache::Impl& c = *m.cache->impl_;
+  {
+    std::lock_guard lock(c.mu);
+    c.at_generation(m.counters.generation);
+    m.norms = c.norms;
+  }
+  if (!m.norms) {
+    auto loaded = DocNormsLoader::load(m.q_norms, static_cast<DocId>(m.counters.next_doc_id));
+    if (!loaded) return loaded.status();
+    m.norms = std::move(loaded).value();
+    std::lock_guard lock(c.mu);
+    c.at_generation(m.counters.generation);
+    if (!c.norms) c.norms = m.norms;
+  }
+  return m.norms.get();
 }
 
 bool IndexReader::live(DocId doc) {
-  return codec::get_norm(impl_->chunk(doc / codec::kNormsPerChunk), doc % codec::kNormsPerChunk).live;
+  auto n = norms();
+  return n.ok() && (*n)->live(doc);
 }
 
 std::uint32_t IndexReader::length(DocId doc, Field field) {
-  return codec::get_norm(impl_->chunk(doc / codec::kNormsPerChunk), doc % codec::kNormsPerChunk)
-      .length[static_cast<std::size_t>(field)];
+  auto n = norms();
+  return n.ok() ? (*n)->length(doc, field) : 0;
 }
 
 Result<DocumentInfo> IndexReader::document(DocId doc) {

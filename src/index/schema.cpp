@@ -35,16 +35,15 @@ CREATE TABLE terms(
   cf INTEGER NOT NULL,
   UNIQUE(field, term));
 CREATE TABLE postings(
-  block_id INTEGER PRIMARY KEY,
+  seg_id INTEGER PRIMARY KEY,
   term_id INTEGER NOT NULL,
   first_doc INTEGER NOT NULL,
   last_doc INTEGER NOT NULL,
-  n INTEGER NOT NULL,
-  max_tf INTEGER NOT NULL,
-  min_len INTEGER NOT NULL,
+  count INTEGER NOT NULL,
+  head BLOB NOT NULL,
   data BLOB NOT NULL);
 CREATE UNIQUE INDEX postings_by_term ON postings(term_id, first_doc);
-CREATE TABLE positions(block_id INTEGER PRIMARY KEY, data BLOB NOT NULL);
+CREATE TABLE positions(seg_id INTEGER PRIMARY KEY, data BLOB NOT NULL);
 CREATE TABLE doc_terms(doc_id INTEGER PRIMARY KEY, data BLOB NOT NULL);
 CREATE TABLE doc_text(doc_id INTEGER PRIMARY KEY, title BLOB NOT NULL, body BLOB NOT NULL);
 CREATE TABLE norms(chunk INTEGER PRIMARY KEY, data BLOB NOT NULL);

@@ -15,6 +15,7 @@
 #include "index/posting_batch.h"
 #include "index/radix_sort.h"
 #include "index/schema.h"
+#include "index/segment.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
 
@@ -40,7 +41,7 @@ struct IndexWriter::Impl {
     std::int64_t mtime_ns = 0;
   } open_file;
   // Flush scratch, reused for every term and document.
-  codec::Block block_out;
+  codec::SegmentBuilder segment_out;
   std::string pos_blob;
   std::vector<codec::ForwardList> per_field;
   std::vector<std::vector<std::uint64_t>> fwd_words;  // per field: term id << 32 | tf
@@ -48,8 +49,8 @@ struct IndexWriter::Impl {
 
   sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
   sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
-  sql::Stmt q_find_term, q_add_term, q_term_df, q_max_term, q_update_term, q_last_block, q_get_positions;
-  sql::Stmt q_drop_block, q_drop_positions, q_put_block, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
+  sql::Stmt q_find_term, q_add_term, q_term_df, q_max_term, q_update_term, q_last_segment, q_get_positions;
+  sql::Stmt q_drop_segment, q_drop_positions, q_put_segment, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
   sql::Stmt q_put_meta, q_delete_meta;
 
   Status prepare_all();
@@ -59,6 +60,8 @@ struct IndexWriter::Impl {
   Status flush();
   Status write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run, Field field, TermId id,
                     bool refill);
+  Status take_back_last_segment(TermId id, codec::SegmentBuilder& out);
+  Status put_segment(TermId id, const codec::BuiltSegment& seg);
   // The batch's memory, by allocation, with the flush's own (see PostingBatch::bytes).
   std::size_t batch_bytes() const {
     return batch.bytes() + dirty_norms.size() * codec::kNormsPerChunk * codec::kNormEntryBytes;
@@ -87,12 +90,12 @@ Status IndexWriter::Impl::prepare_all() {
       {&q_term_df, "SELECT df FROM terms WHERE term_id = ?"},
       {&q_max_term, "SELECT coalesce(max(term_id), 0) FROM terms"},
       {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ?"},
-      {&q_last_block, "SELECT first_doc, n, max_tf, min_len, data, block_id FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
-      {&q_get_positions, "SELECT data FROM positions WHERE block_id = ?"},
-      {&q_drop_block, "DELETE FROM postings WHERE block_id = ?"},
-      {&q_drop_positions, "DELETE FROM positions WHERE block_id = ?"},
-      {&q_put_block, "INSERT INTO postings(term_id, first_doc, last_doc, n, max_tf, min_len, data) VALUES(?,?,?,?,?,?,?)"},
-      {&q_put_positions, "INSERT INTO positions(block_id, data) VALUES(?,?)"},
+      {&q_last_segment, "SELECT seg_id, first_doc, last_doc, count, head, data FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
+      {&q_get_positions, "SELECT data FROM positions WHERE seg_id = ?"},
+      {&q_drop_segment, "DELETE FROM postings WHERE seg_id = ?"},
+      {&q_drop_positions, "DELETE FROM positions WHERE seg_id = ?"},
+      {&q_put_segment, "INSERT INTO postings(term_id, first_doc, last_doc, count, head, data) VALUES(?,?,?,?,?,?)"},
+      {&q_put_positions, "INSERT INTO positions(seg_id, data) VALUES(?,?)"},
       {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
       {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
       {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
@@ -229,72 +232,80 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
   return Status();
 }
 
-// Writes a term's batch postings as new blocks at the table's end. With
-// `refill`, a partly filled last block of the term is first taken back and
-// filled up, so blocks stay dense across small commits.
+// Writes a term's batch postings as new segments at the table's end. With
+// `refill`, the term's last segment, if small, is first taken back and
+// extended (its full blocks copied as they are, a partial last block filled
+// up), so segments and blocks stay dense across many small commits.
 Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run,
                                      Field field, TermId id, bool refill) {
-  codec::Block block;
-  std::string positions;
-  std::vector<std::uint32_t> old_pos_end;
-  std::uint32_t old_min_len = UINT32_MAX;
-  if (refill) q_last_block.bind(1, id);
-  if (refill && q_last_block.step() && q_last_block.i64(1) < kBlockSize) {
-    auto first = static_cast<DocId>(q_last_block.i64(0));
-    auto n = static_cast<std::uint32_t>(q_last_block.i64(1));
-    old_min_len = static_cast<std::uint32_t>(q_last_block.i64(3));
-    const std::int64_t old_block = q_last_block.i64(5);
-    Status s = codec::decode_block(q_last_block.blob(4), first, n, block);
-    q_last_block.reset();
-    LODE_RETURN_IF_ERROR(s);
-    q_get_positions.bind(1, old_block);
-    if (q_get_positions.step()) positions = std::string(q_get_positions.blob(0));
-    s = q_get_positions.status();
-    q_get_positions.reset();
-    LODE_RETURN_IF_ERROR(s);
-    LODE_RETURN_IF_ERROR(q_drop_block.bind(1, old_block).run());
-    LODE_RETURN_IF_ERROR(q_drop_positions.bind(1, old_block).run());
-    std::vector<std::uint32_t> starts;
-    LODE_RETURN_IF_ERROR(codec::split_positions(positions, block.tfs, starts));
-    for (std::size_t i = 1; i < starts.size(); ++i) old_pos_end.push_back(starts[i]);
-    old_pos_end.push_back(static_cast<std::uint32_t>(positions.size()));
-  } else {
-    Status s = q_last_block.status();
-    q_last_block.reset();
-    LODE_RETURN_IF_ERROR(s);
+  codec::SegmentBuilder& out = segment_out;
+  if (refill) LODE_RETURN_IF_ERROR(take_back_last_segment(id, out));
+  std::string& pos = pos_blob;
+  for (const PostingBatch::Posting& p : run) {
+    pos.clear();
+    batch.append_positions(pos, runs, p);
+    out.add(p.doc, runs.tf(p), batch.length(p.doc, field), pos);
+    if (out.full()) LODE_RETURN_IF_ERROR(put_segment(id, out.finish()));
   }
-  // Unified view: old docs (from the partial block) then the batch's docs.
-  const std::size_t n_old = block.docs.size();
-  const std::size_t total = n_old + run.size();
-  for (std::size_t start = 0; start < total; start += kBlockSize) {
-    const std::size_t end = std::min(total, start + kBlockSize);
-    codec::Block& out = block_out;
-    out.docs.clear();
-    out.tfs.clear();
-    pos_blob.clear();
-    std::uint32_t max_tf = 0, min_len = start == 0 && n_old > 0 ? old_min_len : UINT32_MAX;
-    for (std::size_t i = start; i < end; ++i) {
-      if (i < n_old) {
-        out.docs.push_back(block.docs[i]);
-        out.tfs.push_back(block.tfs[i]);
-        const std::uint32_t b = i == 0 ? 0 : old_pos_end[i - 1];
-        pos_blob.append(std::string_view(positions).substr(b, old_pos_end[i] - b));
-      } else {
-        const PostingBatch::Posting& p = run[i - n_old];
-        out.docs.push_back(p.doc);
-        out.tfs.push_back(runs.tf(p));
-        min_len = std::min(min_len, batch.length(p.doc, field));
-        batch.append_positions(pos_blob, runs, p);
-      }
-      max_tf = std::max(max_tf, out.tfs.back());
-    }
-    LODE_RETURN_IF_ERROR(q_put_block.bind(1, id).bind(2, std::int64_t{out.docs.front()})
-                             .bind(3, std::int64_t{out.docs.back()}).bind(4, static_cast<std::int64_t>(out.docs.size()))
-                             .bind(5, std::int64_t{max_tf}).bind(6, std::int64_t{min_len})
-                             .bind_blob(7, codec::encode_block(out)).run());
-    LODE_RETURN_IF_ERROR(q_put_positions.bind(1, db.last_insert_rowid()).bind_blob(2, pos_blob).run());
-  }
+  if (!out.empty()) LODE_RETURN_IF_ERROR(put_segment(id, out.finish()));
   counters.postings += run.size();
+  return Status();
+}
+
+Status IndexWriter::Impl::put_segment(TermId id, const codec::BuiltSegment& seg) {
+  LODE_RETURN_IF_ERROR(q_put_segment.bind(1, id).bind(2, std::int64_t{seg.first_doc})
+                           .bind(3, std::int64_t{seg.last_doc}).bind(4, std::int64_t{seg.count})
+                           .bind_blob(5, seg.head).bind_blob(6, seg.data).run());
+  return q_put_positions.bind(1, db.last_insert_rowid()).bind_blob(2, seg.positions).run();
+}
+
+// A last segment under kRefillPostings postings is deleted and its blocks
+// start `out`: rewriting it costs at most that many postings per term.
+Status IndexWriter::Impl::take_back_last_segment(TermId id, codec::SegmentBuilder& out) {
+  constexpr std::int64_t kRefillPostings = 4 * kBlockSize;
+  q_last_segment.bind(1, id);
+  if (!q_last_segment.step() || q_last_segment.i64(3) >= kRefillPostings) {
+    Status s = q_last_segment.status();
+    q_last_segment.reset();
+    return s;
+  }
+  const std::int64_t key = q_last_segment.i64(0);
+  std::vector<PostingList::StoredSegment> stored(1);
+  stored[0] = PostingList::StoredSegment{key, static_cast<DocId>(q_last_segment.i64(1)),
+                                         static_cast<DocId>(q_last_segment.i64(2)),
+                                         static_cast<std::uint32_t>(q_last_segment.i64(3)),
+                                         std::string(q_last_segment.blob(4)), std::string(q_last_segment.blob(5))};
+  q_last_segment.reset();
+  auto list = PostingList::build(std::move(stored), "term " + std::to_string(id));
+  if (!list) return list.status();
+  std::string positions;
+  q_get_positions.bind(1, key);
+  if (q_get_positions.step()) positions = std::string(q_get_positions.blob(0));
+  Status s = q_get_positions.status();
+  q_get_positions.reset();
+  LODE_RETURN_IF_ERROR(s);
+  LODE_RETURN_IF_ERROR(q_drop_segment.bind(1, key).run());
+  LODE_RETURN_IF_ERROR(q_drop_positions.bind(1, key).run());
+  const auto blocks = (*list)->blocks();
+  for (std::size_t b = 0; b < blocks.size(); ++b) {
+    const PostingList::Block& blk = blocks[b];
+    if (std::uint64_t{blk.pos_offset} + blk.pos_bytes > positions.size())
+      return Status::Corruption("positions of term " + std::to_string(id) + ": shorter than its blocks");
+    const std::string_view pos = std::string_view(positions).substr(blk.pos_offset, blk.pos_bytes);
+    if (blk.n == kBlockSize) {
+      out.add_block(**list, b, pos);
+      continue;
+    }
+    // The partial last block: its documents again, their lengths covered by its points.
+    DocId docs[kBlockSize];
+    std::uint32_t tfs[kBlockSize];
+    LODE_RETURN_IF_ERROR((*list)->decode(b, docs, tfs));
+    std::vector<std::uint32_t> starts;
+    LODE_RETURN_IF_ERROR(codec::split_positions(pos, std::vector<std::uint32_t>(tfs, tfs + blk.n), starts));
+    starts.push_back(static_cast<std::uint32_t>(pos.size()));
+    for (std::uint32_t i = 0; i < blk.n; ++i) out.add(docs[i], tfs[i], 0, pos.substr(starts[i], starts[i + 1] - starts[i]));
+    out.add_points((*list)->points(blk));
+  }
   return Status();
 }
 

@@ -2,6 +2,8 @@
 
 #include <algorithm>
 
+#include "lode/topk.h"
+
 namespace lode::rank {
 
 Result<ClauseMatcher> ClauseMatcher::create(IndexReader& reader, const Clause& clause) {
@@ -24,6 +26,33 @@ Result<ClauseMatcher> ClauseMatcher::create(IndexReader& reader, const Clause& c
     if (all_known) m.fields_.push_back(std::move(fc));
   }
   return m;
+}
+
+Result<DocId> ClauseMatcher::next(DocId doc) {
+  DocId best = kNoDoc;
+  for (FieldCursors& fc : fields_) {
+    // Leapfrog: move every word to the largest current doc until they agree.
+    DocId d = doc;
+    bool agree = false;
+    while (!agree && d < best) {
+      agree = true;
+      for (auto& c : fc.words) {
+        c->seek(d);
+        if (!c->status().ok()) return c->status();
+        if (!c->valid()) {
+          d = kNoDoc;
+          break;
+        }
+        if (c->doc() != d) {
+          d = c->doc();
+          agree = false;
+          break;
+        }
+      }
+    }
+    best = std::min(best, d);
+  }
+  return best;
 }
 
 Result<bool> ClauseMatcher::contains(DocId doc) {

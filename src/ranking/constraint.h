@@ -18,6 +18,11 @@ class ClauseMatcher {
   // True when `doc` contains the clause (the phrase, for phrase clauses) in
   // any of the clause's fields. REQUIRES: doc >= every doc asked before.
   Result<bool> contains(DocId doc);
+  // The first document >= doc holding every word of the clause in one of its
+  // fields (for a phrase, a candidate contains() still checks), or kNoDoc.
+  // Lets a walk jump over documents that lack a required clause.
+  // REQUIRES: doc >= every doc asked before (here or in contains()).
+  Result<DocId> next(DocId doc);
 
  private:
   struct FieldCursors {

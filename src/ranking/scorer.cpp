@@ -7,13 +7,15 @@ namespace lode::rank {
 
 Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms)
     : reader_(reader), options_(options), terms_(terms), stats_(reader.stats()) {
+  if (auto n = reader.norms(); n.ok()) norms_ = *n;
+  else status_ = n.status();
   auto n = static_cast<double>(stats_.documents);
   if (options.model == Model::kBm25) {
     for (auto& t : terms_) {
       t.df = t.info ? t.info->df : 0;
       t.query_weight = t.qtf;
     }
-    if (options.fields == FieldScoring::kJoint) status_ = group_fields();
+    if (options.fields == FieldScoring::kJoint && status_.ok()) status_ = group_fields();
     for (auto& t : terms_) t.idf = t.info ? bm25_idf(n, static_cast<double>(t.df)) : 0;
     return;
   }
@@ -68,7 +70,7 @@ Status Scorer::group_fields() {
     for (; shorter->valid(); shorter->next()) {
       longer->seek(shorter->doc());
       if (!longer->valid()) break;
-      if (longer->doc() == shorter->doc() && reader_.live(shorter->doc())) ++both;
+      if (longer->doc() == shorter->doc() && norms_->live(shorter->doc())) ++both;
     }
     LODE_RETURN_IF_ERROR(shorter->status());
     LODE_RETURN_IF_ERROR(longer->status());
@@ -106,7 +108,7 @@ double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std
   for (std::size_t i = 0; i < terms_.size(); ++i) {
     if (tfs[i] == 0) continue;
     const ScoringTerm& t = terms_[i];
-    double b_norm = bm25_length_norm(reader_.length(doc, t.field), stats_.average_length(t.field), options_.bm25.b);
+    double b_norm = bm25_length_norm(norms_->length(doc, t.field), stats_.average_length(t.field), options_.bm25.b);
     norm[i] = tfs[i] / b_norm;
     group_x_[t.group] += options_.field_weight[static_cast<std::size_t>(t.field)] * norm[i];
   }
@@ -121,7 +123,7 @@ double Scorer::score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std
     const double contribution = fw * t.query_weight * t.idf * tf_part;
     total += contribution;
     if (out)
-      out->push_back(TermContribution{t.term, t.field, tfs[i], t.df, t.idf, reader_.length(doc, t.field),
+      out->push_back(TermContribution{t.term, t.field, tfs[i], t.df, t.idf, norms_->length(doc, t.field),
                                       stats_.average_length(t.field), tf_part, t.query_weight, fw, contribution});
   }
   return total;
@@ -169,12 +171,12 @@ double Scorer::term_bound(std::size_t i) const {
   return terms_[i].info ? bound(i, static_cast<double>(terms_[i].info->cf), 0) : 0;
 }
 
-double Scorer::block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const {
-  return bound(i, max_tf, min_length);
+double Scorer::block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const {
+  return bound(i, tf, length);
 }
 
 double Scorer::doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const {
-  return bound(i, tf, reader_.length(doc, terms_[i].field));
+  return bound(i, tf, norms_->length(doc, terms_[i].field));
 }
 
 Result<std::uint64_t> Scorer::df_of(TermId id) {
@@ -193,7 +195,7 @@ Result<Scorer::DocVector> Scorer::doc_vector(DocId doc, Field field) {
   DocVector v;
   auto fwd = reader_.forward(doc, field);
   if (!fwd) return fwd.status();
-  double sum_tf = 0, length = reader_.length(doc, field);
+  double sum_tf = 0, length = norms_->length(doc, field);
   for (auto& [id, tf] : *fwd) {
     v.max_tf = std::max(v.max_tf, static_cast<double>(tf));
     sum_tf += tf;
@@ -229,7 +231,7 @@ Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
     const ScoringTerm& t = terms_[i];
     auto fi = static_cast<std::size_t>(t.field);
     double fw = options_.field_weight[fi];
-    std::uint32_t len = reader_.length(doc, t.field);
+    std::uint32_t len = norms_->length(doc, t.field);
     double avg = stats_.average_length(t.field);
     double tf_part, contribution;
     if (bm25) {

@@ -37,7 +37,7 @@ class Scorer {
   // pruning (lode/topk.h): to any document; to one with tf <= max_tf and
   // field length >= min_length; to `doc`, where its tf is `tf`.
   double term_bound(std::size_t i) const;
-  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const;
+  double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const;
 
  private:
@@ -58,6 +58,8 @@ class Scorer {
   const SearchOptions& options_;
   std::vector<ScoringTerm>& terms_;
   CollectionStats stats_;
+  DocNorms no_norms_;                   // stands in when the norms could not be read (status_ says why)
+  const DocNorms* norms_ = &no_norms_;
   std::unordered_map<TermId, std::uint64_t> df_cache_;
   Status status_;                       // from the constructor (group_fields); score() returns it
   std::vector<double> group_x_;         // joint BM25 scratch: x per group

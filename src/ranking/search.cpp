@@ -144,19 +144,39 @@ namespace {
 // plan's filters and clauses deciding which documents may be returned.
 class PlanModel final : public TopKModel {
  public:
-  PlanModel(IndexReader& reader, rank::Scorer& scorer, const std::optional<std::vector<DocId>>& allowed,
+  PlanModel(const DocNorms& norms, rank::Scorer& scorer, const std::optional<std::vector<DocId>>& allowed,
             std::vector<rank::ClauseMatcher>& required, std::vector<rank::ClauseMatcher>& excluded)
-      : reader_(reader), scorer_(scorer), allowed_(allowed), required_(required), excluded_(excluded) {}
+      : norms_(norms), scorer_(scorer), allowed_(allowed), required_(required), excluded_(excluded) {}
   double term_bound(std::size_t i) const override { return scorer_.term_bound(i); }
-  double block_bound(std::size_t i, std::uint32_t max_tf, std::uint32_t min_length) const override {
-    return scorer_.block_bound(i, max_tf, min_length);
+  double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const override {
+    return scorer_.block_bound(i, tf, length);
   }
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return scorer_.doc_bound(i, tf, doc); }
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) override {
     return scorer_.score(doc, tfs, nullptr);
   }
+  // Required clauses and the metadata filter move the walk forward: the
+  // first document at or after `doc` that every one of them allows.
+  Result<DocId> next_admissible(DocId doc) override {
+    DocId d = doc;
+    for (bool moved = true; moved && d != kNoDoc;) {
+      moved = false;
+      if (allowed_) {
+        auto it = std::lower_bound(allowed_->begin(), allowed_->end(), d);
+        const DocId a = it == allowed_->end() ? kNoDoc : *it;
+        if (a != d) d = a, moved = true;
+      }
+      for (auto& m : required_) {
+        if (d == kNoDoc) break;
+        auto r = m.next(d);
+        if (!r) return r.status();
+        if (*r != d) d = *r, moved = true;
+      }
+    }
+    return d;
+  }
   Result<bool> admit(DocId doc) override {
-    if (!reader_.live(doc)) return false;
+    if (!norms_.live(doc)) return false;
     if (allowed_ && !std::binary_search(allowed_->begin(), allowed_->end(), doc)) return false;
     for (auto& m : required_) {
       auto r = m.contains(doc);
@@ -171,7 +191,7 @@ class PlanModel final : public TopKModel {
   }
 
  private:
-  IndexReader& reader_;
+  const DocNorms& norms_;
   rank::Scorer& scorer_;
   const std::optional<std::vector<DocId>>& allowed_;
   std::vector<rank::ClauseMatcher>& required_;
@@ -181,11 +201,22 @@ class PlanModel final : public TopKModel {
 }  // namespace
 
 Result<TopKResult> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep, bool count_all) {
-  std::vector<std::unique_ptr<PostingCursor>> cursors(plan.terms.size());
-  for (std::size_t i = 0; i < plan.terms.size(); ++i)
-    if (plan.terms[i].info) cursors[i] = reader.postings(*plan.terms[i].info);
-  PlanModel model(reader, scorer, plan.allowed, plan.required, plan.excluded);
-  return top_k(cursors, model, keep, count_all);
+  auto norms = reader.norms();
+  if (!norms) return norms.status();
+  std::vector<TermId> ids;
+  for (const auto& t : plan.terms)
+    if (t.info) ids.push_back(t.info->id);
+  auto lists = reader.postings_lists(ids);  // one set-based read for the whole query
+  if (!lists) return lists.status();
+  std::vector<std::unique_ptr<PostingCursor>> owned(plan.terms.size());
+  std::vector<PostingCursor*> cursors(plan.terms.size(), nullptr);
+  for (std::size_t i = 0, next = 0; i < plan.terms.size(); ++i)
+    if (plan.terms[i].info) {
+      owned[i] = reader.cursor((*lists)[next++]);
+      cursors[i] = owned[i].get();
+    }
+  PlanModel model(**norms, scorer, plan.allowed, plan.required, plan.excluded);
+  return top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all);
 }
 
 Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {

@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include "index/codec.h"
+#include "index/segment.h"
 #include "index/sqlite.h"
 #include "lode/indexer.h"
 #include "util.h"
@@ -119,8 +120,8 @@ TEST_CASE("edit, delete and add between runs: the index equals a fresh build of 
   check_same(a, b);
 }
 
-TEST_CASE("small commits keep blocks dense, large commits append partial blocks, and both rank the same") {
-  // 600 documents that all hold "storm": 5 blocks when dense (4 full + 88).
+TEST_CASE("small commits keep segments dense, large commits append segments, and both rank the same") {
+  // 600 documents that all hold "storm", committed 50 at a time.
   std::vector<std::pair<std::string, std::string>> docs;
   for (int i = 0; i < 600; ++i) docs.emplace_back("", "storm log entry " + std::to_string(i % 7) + " lamp");
   TempDir dir;
@@ -128,7 +129,7 @@ TEST_CASE("small commits keep blocks dense, large commits append partial blocks,
     auto db = sql::Db::open(path, SQLITE_OPEN_READONLY);
     REQUIRE(db.ok());
     auto q = db->prepare(
-        "SELECT count(*), sum(n), max(n) FROM postings WHERE term_id = "
+        "SELECT count(*), sum(count), max(count) FROM postings WHERE term_id = "
         "(SELECT term_id FROM terms WHERE field = 1 AND term = ?)");
     REQUIRE(q.ok());
     q->bind(1, std::string(term));
@@ -139,7 +140,8 @@ TEST_CASE("small commits keep blocks dense, large commits append partial blocks,
   every50.batch_documents = 50;  // 12 commits of a few terms each: under refill_max_terms
   const std::string dense = dir.str("dense.sqlite");
   build_index(dense, docs, {}, every50);
-  CHECK(blocks_of(dense, "storm") == std::array<std::int64_t, 3>{5, 600, 128});
+  // Refilled while under 512 postings: one segment of 550, then one of 50.
+  CHECK(blocks_of(dense, "storm") == std::array<std::int64_t, 3>{2, 600, 550});
   WriterOptions appending = every50;
   appending.refill_max_terms = 0;  // as a commit of many terms does
   const std::string appended = dir.str("appended.sqlite");
@@ -325,18 +327,42 @@ TEST_CASE("analyzer settings are fixed at creation") {
 }
 
 TEST_CASE("decoders reject corrupt blobs with a Corruption status") {
-  codec::Block b{{10, 12, 30}, {1, 4, 2}};
-  std::string data = codec::encode_block(b);
-  CHECK(data == std::string("\x02\x12\x01\x04\x02", 5));  // the worked example in docs/index-format.md
-  codec::Block out;
-  CHECK(codec::decode_block(data, 10, 3, out).ok());
-  CHECK(out.docs == b.docs);
-  CHECK(out.tfs == b.tfs);
-  for (std::size_t cut = 0; cut < data.size(); ++cut)
-    CHECK(codec::decode_block(data.substr(0, cut), 10, 3, out).code() == Code::kCorruption);
-  CHECK(codec::decode_block(data + "x", 10, 3, out).code() == Code::kCorruption);
-  CHECK(codec::decode_block(data, 10, 0, out).code() == Code::kCorruption);
-  CHECK(codec::decode_block(std::string(12, '\xff'), 10, 2, out).code() == Code::kCorruption);
+  // The worked example in docs/index-format.md: docs 10, 12, 30 with tf 1, 4, 2
+  // and field lengths 5, 9, 7.
+  codec::SegmentBuilder builder;
+  builder.add(10, 1, 5, std::string("\x03", 1));
+  builder.add(12, 4, 9, std::string("\x00\x02\x03\x04", 4));
+  builder.add(30, 2, 7, std::string("\x01\x01", 2));
+  const codec::BuiltSegment seg = builder.finish();
+  CHECK(seg.data == std::string("\x05\x02\x20\x44\x1c", 5));
+  CHECK(seg.head == std::string("\x01\x03\x14\x05\x07\x03\x01\x05\x02\x07\x04\x09", 12));
+  auto stored = [&](std::string head, std::string data, std::uint32_t count = 3) {
+    return std::vector<PostingList::StoredSegment>{{1, seg.first_doc, seg.last_doc, count, head, data}};
+  };
+  auto list = PostingList::build(stored(seg.head, seg.data), "term 1");
+  REQUIRE(list.ok());
+  DocId docs[kBlockSize];
+  std::uint32_t tfs[kBlockSize];
+  REQUIRE((*list)->decode(0, docs, tfs).ok());
+  CHECK(std::vector<DocId>(docs, docs + 3) == std::vector<DocId>{10, 12, 30});
+  CHECK(std::vector<std::uint32_t>(tfs, tfs + 3) == std::vector<std::uint32_t>{1, 4, 2});
+  const auto pts = (*list)->points((*list)->blocks()[0]);
+  CHECK(std::vector<BoundPoint>(pts.begin(), pts.end()) == std::vector<BoundPoint>{{1, 5}, {2, 7}, {4, 9}});
+  for (std::size_t cut = 0; cut < seg.head.size(); ++cut)
+    CHECK(PostingList::build(stored(seg.head.substr(0, cut), seg.data), "t").status().code() == Code::kCorruption);
+  CHECK(PostingList::build(stored(seg.head + "x", seg.data), "t").status().code() == Code::kCorruption);
+  CHECK(PostingList::build(stored(seg.head, seg.data + "x"), "t").status().code() == Code::kCorruption);
+  CHECK(PostingList::build(stored(seg.head, seg.data, 4), "t").status().code() == Code::kCorruption);
+  std::string flipped = seg.data;
+  flipped[3] = '\x45';  // the third gap grows: the block no longer ends at doc 30
+  auto bad = PostingList::build(stored(seg.head, flipped), "t");
+  REQUIRE(bad.ok());
+  CHECK((*bad)->decode(0, docs, tfs).code() == Code::kCorruption);
+  flipped = seg.data;
+  flipped[0] = '\x40';  // a 64-bit width
+  bad = PostingList::build(stored(seg.head, flipped), "t");
+  REQUIRE(bad.ok());
+  CHECK((*bad)->decode(0, docs, tfs).code() == Code::kCorruption);
   std::vector<codec::ForwardList> fwd{{{3, 1}, {9, 2}}, {{4, 7}}};
   std::string f = codec::encode_forward(fwd);
   std::vector<codec::ForwardList> back;
