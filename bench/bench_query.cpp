@@ -21,11 +21,13 @@
 //
 //   bench_query --index FILE [--queries 200] [--repeat 5] [--seed 42]
 //               [--query-seed 7] [--budget-s S] [--words-from-index] [--json-out FILE]
+//               [--only CONFIG...]
 #include <CLI/CLI.hpp>
 #include <nlohmann/json.hpp>
 
 #include <cstdio>
 #include <fstream>
+#include <algorithm>
 #include <map>
 
 #include "lode/query.h"
@@ -42,6 +44,7 @@ namespace {
 
 struct Args {
   std::string index, label, json_out, dump_queries;
+  std::vector<std::string> only;  // configurations to run (empty: all)
   std::size_t queries = 200, vocab = 50'000;
   int repeat = 5;
   double budget_s = 0;
@@ -127,16 +130,19 @@ int run(const Args& a) {
   }
 
   json configs = json::array();
+  auto wanted = [&](const char* name) {
+    return a.only.empty() || std::find(a.only.begin(), a.only.end(), name) != a.only.end();
+  };
   auto add = [&](const char* name, const json& m) {
     configs.push_back({{"config", name}, {"latency", m}});
     std::fprintf(stderr, "bench_query: %s: %zu samples, mean %.4f ms\n", name, m["all"]["n"].get<std::size_t>(),
                  m["all"]["mean_ms"].get<double>());
   };
-  add("parse-only", measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
+  if (wanted("parse-only")) add("parse-only", measure(*set, a.repeat, a.budget_s, [&](const std::string& q) -> long long {
         auto parsed = parse_query(q, **analyzer);
         return parsed ? static_cast<long long>(parsed->clauses.size()) : -1;
       }));
-  {
+  if (wanted("varint-bm25-exhaustive")) {
     auto scope = (*reader)->begin();
     if (!scope) return fail(scope.status());
     std::vector<std::string> texts;
@@ -160,6 +166,7 @@ int run(const Args& a) {
                           Config{"bm25-rank", Model::kBm25, false}, Config{"tfidf-lnc.ltc-rank", Model::kTfIdf, false},
                           Config{"bm25-rank-count-all", Model::kBm25, false, true},
                           Config{"tfidf-lnc.ltc-rank-count-all", Model::kTfIdf, false, true}}) {
+    if (!wanted(c.name)) continue;
     SearchOptions o;
     o.model = c.model;
     o.smart = lnc_ltc.value();
@@ -218,6 +225,7 @@ int main(int argc, char** argv) {
   app.add_flag("--words-from-index", a.words_from_index, "draw words from stored documents, not the synthetic vocabulary");
   app.add_option("--dump-queries", a.dump_queries, "write the query set here (kind TAB query per line)");
   app.add_option("--label", a.label, "name for this run in the output");
+  app.add_option("--only", a.only, "run only these configurations (e.g. bm25-rank varint-bm25-exhaustive)");
   app.add_option("--json-out", a.json_out, "also write the JSON result here");
   CLI11_PARSE(app, argc, argv);
   return run(a);

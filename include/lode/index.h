@@ -312,6 +312,10 @@ class IndexReader {
   // this reader. Valid within the scope.
   std::unique_ptr<PostingCursor> cursor(std::shared_ptr<const PostingList> list);
 
+  // Live documents holding both terms (BM25F's any-field df needs it for a
+  // word in two fields). Computed once per commit generation and cached.
+  Result<std::uint64_t> live_overlap(TermId a, TermId b);
+
   // Lengths and liveness of every document of the snapshot. Errors: the
   // norms could not be read (IOError, Corruption).
   Result<const DocNorms*> norms();

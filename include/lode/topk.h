@@ -62,6 +62,16 @@ class TopKModel {
   virtual double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const = 0;
   // Bound for `doc`, where term i has frequency tf (> 0).
   virtual double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const = 0;
+  // Terms whose contributions are bounded together (BM25F: one word in two
+  // fields saturates once): term i's group, in 0 .. terms-1, and a cap on any
+  // document's total from group g given each member's bound points (lists
+  // indexed like the members, ascending term index). By default every term
+  // is its own group and nothing is capped.
+  virtual std::size_t group(std::size_t i) const { return i; }
+  virtual double group_cap(std::size_t /*g*/, std::span<const std::size_t> /*members*/,
+                           std::span<const std::span<const BoundPoint>> /*points*/) const {
+    return std::numeric_limits<double>::infinity();
+  }
   // The first document >= `doc` that may pass admit() (required clauses,
   // filters), or kNoDoc when none can. Called with increasing `doc`.
   virtual Result<DocId> next_admissible(DocId doc) { return doc; }
@@ -107,15 +117,21 @@ class Walk {
         cached_block_(cursors.size(), kNone), block_bound_(cursors.size(), 0) {}
 
   Result<TopKResult> run() {
-    std::vector<double> bound(cursors_.size(), 0);
+    term_bound_.assign(cursors_.size(), 0);
     for (std::size_t i = 0; i < cursors_.size(); ++i)
       if (cursors_[i] && cursors_[i]->valid()) {
         order_.push_back(i);
-        bound[i] = std::min(model_.term_bound(i), points_bound(i, cursors_[i]->list().list_points()));
+        term_bound_[i] = std::min(model_.term_bound(i), points_bound(i, cursors_[i]->list().list_points()));
       }
-    std::stable_sort(order_.begin(), order_.end(), [&](std::size_t a, std::size_t b) { return bound[a] < bound[b]; });
-    double sum = 0;
-    for (std::size_t i : order_) prefix_.push_back(sum += bound[i]);
+    make_groups();
+    std::stable_sort(order_.begin(), order_.end(),
+                     [&](std::size_t a, std::size_t b) { return term_bound_[a] < term_bound_[b]; });
+    // prefix_[m]: a document found only in order_[0..m], groups capped.
+    clear_groups();
+    for (std::size_t i : order_) {
+      gsum_[group_[i]] += term_bound_[i];
+      prefix_.push_back(capped());
+    }
 
     while (true) {
       DocId doc = kNoDoc;
@@ -163,6 +179,34 @@ class Walk {
   bool cannot_enter(double bound) const { return full_ && bound + std::abs(bound) * kSlack < theta_; }
   // Bound of a document found only in the first m terms of order_.
   double lazy_bound(std::size_t m) const { return m == 0 ? 0.0 : prefix_[m - 1]; }
+  // Groups of terms (TopKModel::group) and their caps.
+  void make_groups() {
+    group_.assign(cursors_.size(), 0);
+    std::size_t groups = 0;
+    for (std::size_t i = 0; i < cursors_.size(); ++i) {
+      group_[i] = model_.group(i);
+      groups = std::max(groups, group_[i] + 1);
+    }
+    cap_.assign(groups, std::numeric_limits<double>::infinity());
+    gsum_.assign(groups, 0);
+    for (std::size_t g = 0; g < groups; ++g) {
+      std::vector<std::size_t> members;
+      std::vector<std::span<const BoundPoint>> points;
+      for (std::size_t i : order_)
+        if (group_[i] == g) members.push_back(i);
+      std::sort(members.begin(), members.end());
+      for (std::size_t i : members) points.push_back(cursors_[i]->list().list_points());
+      if (members.size() > 1) cap_[g] = model_.group_cap(g, members, points);
+      if (members.size() > 1) grouped_ = true;
+    }
+  }
+  void clear_groups() { std::fill(gsum_.begin(), gsum_.end(), 0.0); }
+  // The sum of gsum_ with each group capped.
+  double capped() const {
+    double total = 0;
+    for (std::size_t g = 0; g < gsum_.size(); ++g) total += std::min(gsum_[g], cap_[g]);
+    return total;
+  }
   double points_bound(std::size_t i, std::span<const BoundPoint> points) const {
     double b = 0;
     for (const BoundPoint& p : points) b = std::max(b, model_.block_bound(i, p.tf, p.length));
@@ -182,13 +226,21 @@ class Walk {
   // if no document in it can enter; returns whether it did.
   bool skip_blocks() {
     DocId end = kNoDoc;
-    double bound = lazy_bound(lazy_);
+    double bound = 0;
+    if (grouped_) {
+      clear_groups();
+      for (std::size_t m = 0; m < lazy_; ++m) gsum_[group_[order_[m]]] += term_bound_[order_[m]];
+    } else {
+      bound = lazy_bound(lazy_);
+    }
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       const PostingCursor& c = cursor(m);
       if (!c.valid()) continue;
       end = std::min(end, c.block_last_doc());
-      bound += current_block_bound(m);
+      if (grouped_) gsum_[group_[order_[m]]] += current_block_bound(m);
+      else bound += current_block_bound(m);
     }
+    if (grouped_) bound = capped();
     if (end == kNoDoc || !cannot_enter(bound)) return false;
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       PostingCursor& c = cursor(m);
@@ -199,6 +251,7 @@ class Walk {
   // Candidate `doc`: fills tfs_, tightening its bound; false if dropped.
   bool gather(DocId doc) {
     std::fill(tfs_.begin(), tfs_.end(), 0);
+    if (grouped_) return gather_grouped(doc);
     double known = 0;  // bound from the terms whose tf in doc is known
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       const PostingCursor& c = cursor(m);
@@ -219,6 +272,32 @@ class Walk {
       }
     }
     return !cannot_enter(known);
+  }
+  // gather() with group caps: per group, the known terms' doc bounds plus
+  // the term bounds of the non-essential terms not looked at yet.
+  bool gather_grouped(DocId doc) {
+    clear_groups();
+    for (std::size_t m = 0; m < lazy_; ++m) gsum_[group_[order_[m]]] += term_bound_[order_[m]];
+    for (std::size_t m = lazy_; m < order_.size(); ++m) {
+      const PostingCursor& c = cursor(m);
+      if (c.valid() && c.doc() == doc) {
+        const std::size_t i = order_[m];
+        tfs_[i] = c.tf();
+        gsum_[group_[i]] += model_.doc_bound(i, tfs_[i], doc);
+      }
+    }
+    for (std::size_t m = lazy_; m-- > 0;) {
+      if (cannot_enter(capped())) return false;
+      const std::size_t i = order_[m];
+      PostingCursor& c = cursor(m);
+      c.seek(doc);
+      gsum_[group_[i]] -= term_bound_[i];
+      if (c.valid() && c.doc() == doc) {
+        tfs_[i] = c.tf();
+        gsum_[group_[i]] += model_.doc_bound(i, c.tf(), doc);
+      }
+    }
+    return !cannot_enter(capped());
   }
   Status offer(DocId doc) {
     auto admitted = model_.admit(doc);
@@ -250,6 +329,11 @@ class Walk {
   std::vector<std::uint32_t> tfs_;
   std::vector<std::size_t> cached_block_;  // per term: the block whose bound is cached
   std::vector<double> block_bound_;        // per term: that bound
+  std::vector<double> term_bound_;         // per term: bound on any document
+  std::vector<std::size_t> group_;         // per term: its group
+  std::vector<double> cap_;                // per group: cap on its total
+  std::vector<double> gsum_;               // per group: scratch sums
+  bool grouped_ = false;                   // some group has two or more terms
   std::vector<std::size_t> order_;  // terms with postings, by ascending term bound
   std::vector<double> prefix_;      // prefix_[m] = sum of the bounds of order_[0..m]
   std::size_t lazy_ = 0;            // order_[0..lazy_) are non-essential

@@ -1,6 +1,7 @@
 // IndexReader: snapshot reads over the SQLite index.
 #include <filesystem>
 #include <list>
+#include <map>
 #include <mutex>
 #include <unordered_map>
 #include <variant>
@@ -62,6 +63,7 @@ struct ReaderCache::Impl {
   std::uint64_t generation = ~std::uint64_t{0};  // of everything held
   std::shared_ptr<const DocNorms> norms;
   std::unordered_map<TermId, Entry> lists;
+  std::map<std::pair<TermId, TermId>, std::uint64_t> overlaps;  // live_overlap() results
   std::list<TermId> lru;  // most recently used first
   std::size_t bytes = 0;
   Counts counts;
@@ -72,6 +74,7 @@ struct ReaderCache::Impl {
     if (g == generation) return;
     generation = g;
     norms.reset();
+    overlaps.clear();
     lists.clear();
     lru.clear();
     bytes = 0;
@@ -284,6 +287,35 @@ Result<std::vector<std::shared_ptr<const PostingList>>> IndexReader::postings_li
 
 std::unique_ptr<PostingCursor> IndexReader::cursor(std::shared_ptr<const PostingList> list) {
   return std::make_unique<PostingCursor>(std::move(list), impl_.get());
+}
+
+Result<std::uint64_t> IndexReader::live_overlap(TermId a, TermId b) {
+  if (a > b) std::swap(a, b);
+  ReaderCache::Impl& c = *impl_->cache->impl_;
+  const std::uint64_t g = impl_->counters.generation;
+  {
+    std::lock_guard lock(c.mu);
+    c.at_generation(g);
+    if (auto it = c.overlaps.find({a, b}); it != c.overlaps.end()) return it->second;
+  }
+  auto n = norms();
+  if (!n) return n.status();
+  auto lists = postings_lists({a, b});
+  if (!lists) return lists.status();
+  auto& ls = *lists;
+  if (ls[0]->postings() > ls[1]->postings()) std::swap(ls[0], ls[1]);
+  PostingCursor shorter(ls[0], nullptr), longer(ls[1], nullptr);
+  std::uint64_t both = 0;
+  for (; shorter.valid() && longer.valid(); shorter.next()) {
+    longer.seek(shorter.doc());
+    if (longer.valid() && longer.doc() == shorter.doc() && (*n)->live(shorter.doc())) ++both;
+  }
+  LODE_RETURN_IF_ERROR(shorter.status());
+  LODE_RETURN_IF_ERROR(longer.status());
+  std::lock_guard lock(c.mu);
+  c.at_generation(g);
+  if (c.overlaps.size() < 65536) c.overlaps.emplace(std::make_pair(a, b), both);  // bounded: 64k pairs
+  return both;
 }
 
 Result<const DocNorms*> IndexReader::norms() {

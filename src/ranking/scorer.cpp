@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
 namespace lode::rank {
 
@@ -17,6 +18,15 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
     }
     if (options.fields == FieldScoring::kJoint && status_.ok()) status_ = group_fields();
     for (auto& t : terms_) t.idf = t.info ? bm25_idf(n, static_cast<double>(t.df)) : 0;
+    const double k1 = options.bm25.k1, b = options.bm25.b;
+    for (auto& t : terms_) {
+      const double fw = options.field_weight[static_cast<std::size_t>(t.field)];
+      const double avg = stats_.average_length(t.field);
+      // BM25F's bound is qtf*idf*sat(x) = qtf*idf*(k1+1)*x/(x+k1); BM25's is
+      // fw*qtf*idf*(k1+1)*tf/(tf+k1*B).
+      const double scale = t.query_weight * t.idf * (k1 + 1.0) * (options.fields == FieldScoring::kSum ? fw : 1.0);
+      fast_.push_back(FastBound{fw, avg > 0 ? 1.0 - b : 1.0, avg > 0 ? b / avg : 0.0, k1, scale});
+    }
     return;
   }
   // TF-IDF: one query vector per field, normalised on its own.
@@ -48,8 +58,8 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
 
 // Terms of one word in several fields form a group; its df counts the live
 // documents in the union of the fields' postings: |A| + |B| - |A and B|, with
-// each field's live df from the index and the overlap found by walking the
-// shorter list (titles are short) and seeking in the longer one.
+// each field's live df from the index and the overlap from the reader
+// (computed once per commit generation).
 Status Scorer::group_fields() {
   static_assert(kFieldCount == 2, "the union below is of two fields");
   std::vector<std::string> words;
@@ -64,17 +74,9 @@ Status Scorer::group_fields() {
     for (auto& t : terms_)
       if (t.group == g && t.info) members.push_back(&t);
     if (members.size() < 2) continue;  // one field: its own df is the union
-    if (members[0]->info->df > members[1]->info->df) std::swap(members[0], members[1]);
-    auto shorter = reader_.postings(*members[0]->info), longer = reader_.postings(*members[1]->info);
-    std::uint64_t both = 0;
-    for (; shorter->valid(); shorter->next()) {
-      longer->seek(shorter->doc());
-      if (!longer->valid()) break;
-      if (longer->doc() == shorter->doc() && norms_->live(shorter->doc())) ++both;
-    }
-    LODE_RETURN_IF_ERROR(shorter->status());
-    LODE_RETURN_IF_ERROR(longer->status());
-    const std::uint64_t df = members[0]->info->df + members[1]->info->df - both;
+    auto both = reader_.live_overlap(members[0]->info->id, members[1]->info->id);
+    if (!both) return both.status();
+    const std::uint64_t df = members[0]->info->df + members[1]->info->df - *both;
     for (ScoringTerm* t : members) t->df = df;
   }
   return Status();
@@ -150,6 +152,16 @@ double Scorer::bound(std::size_t i, double tf, double length) const {
   const ScoringTerm& t = terms_[i];
   if (!t.info || tf <= 0) return 0;
   length = std::max(length, tf);
+  if (!fast_.empty()) {  // BM25: the constants below, worked out once per query
+    const FastBound& f = fast_[i];
+    const double norm = f.one_minus_b + f.b_over_avg * length;  // bm25_length_norm
+    if (options_.fields == FieldScoring::kSum) return f.scale * tf / (tf + f.k1 * norm);
+    // BM25F: an entry's share w*tf/B / x of its group's qtf * idf * sat(x)
+    // is at most qtf * idf * sat(w*tf/B), since sat(x)/x falls as x grows.
+    // (B > 0: length >= tf >= 1.)
+    const double x = f.fw * tf / norm;
+    return x > 0 ? f.scale * x / (x + f.k1) : 0;
+  }
   const double fw = options_.field_weight[static_cast<std::size_t>(t.field)];
   const double avg = stats_.average_length(t.field);
   if (options_.model == Model::kBm25) {
@@ -165,6 +177,27 @@ double Scorer::bound(std::size_t i, double tf, double length) const {
   if (w.doc_norm == 'c') return fw * t.query_weight * cosine_share_bound(tf, length);
   const double doc_idf = smart_idf(w.doc_idf, static_cast<double>(stats_.documents), static_cast<double>(t.df), w.log_base);
   return fw * t.query_weight * smart_tf_bound(w.doc_tf, tf, length, w.log_base) * doc_idf;
+}
+
+std::size_t Scorer::group(std::size_t i) const {
+  return options_.model == Model::kBm25 && options_.fields == FieldScoring::kJoint ? terms_[i].group : i;
+}
+
+double Scorer::group_cap(std::span<const std::size_t> members,
+                         std::span<const std::span<const BoundPoint>> points) const {
+  if (fast_.empty() || options_.fields != FieldScoring::kJoint) return std::numeric_limits<double>::infinity();
+  double x = 0, scale = 0;
+  for (std::size_t k = 0; k < members.size(); ++k) {
+    const FastBound& f = fast_[members[k]];
+    double best = 0;  // the member's largest w*tf/B: x rises with tf and falls with length
+    for (const BoundPoint& p : points[k]) {
+      const double tf = p.tf, length = std::max<double>(p.length, p.tf);
+      best = std::max(best, f.fw * tf / (f.one_minus_b + f.b_over_avg * length));
+    }
+    x += best;
+    scale = std::max(scale, f.scale);
+  }
+  return x > 0 ? scale * x / (x + options_.bm25.k1) : 0;
 }
 
 double Scorer::term_bound(std::size_t i) const {

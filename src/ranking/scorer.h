@@ -3,6 +3,7 @@
 // computes ranking scores and breakdowns, so the two always agree.
 #pragma once
 
+#include <span>
 #include <unordered_map>
 #include <vector>
 
@@ -39,6 +40,11 @@ class Scorer {
   double term_bound(std::size_t i) const;
   double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const;
+  // Groups for lode/topk.h: joint BM25 caps a word's fields together at
+  // max qtf * idf * sat(sum of the fields' largest w*tf/B), since the fields
+  // share one saturation; other models leave every term alone.
+  std::size_t group(std::size_t i) const;
+  double group_cap(std::span<const std::size_t> members, std::span<const std::span<const BoundPoint>> points) const;
 
  private:
   struct DocVector {
@@ -58,6 +64,11 @@ class Scorer {
   const SearchOptions& options_;
   std::vector<ScoringTerm>& terms_;
   CollectionStats stats_;
+  // BM25 bounds per term, precomputed: the query loop asks for millions.
+  struct FastBound {
+    double fw, one_minus_b, b_over_avg, k1, scale;
+  };
+  std::vector<FastBound> fast_;  // empty for TF-IDF
   DocNorms no_norms_;                   // stands in when the norms could not be read (status_ says why)
   const DocNorms* norms_ = &no_norms_;
   std::unordered_map<TermId, std::uint64_t> df_cache_;

@@ -152,6 +152,11 @@ class PlanModel final : public TopKModel {
     return scorer_.block_bound(i, tf, length);
   }
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return scorer_.doc_bound(i, tf, doc); }
+  std::size_t group(std::size_t i) const override { return scorer_.group(i); }
+  double group_cap(std::size_t, std::span<const std::size_t> members,
+                   std::span<const std::span<const BoundPoint>> points) const override {
+    return scorer_.group_cap(members, points);
+  }
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) override {
     return scorer_.score(doc, tfs, nullptr);
   }

@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include "index/codec.h"
+#include "index/bitpack.h"
 #include "index/segment.h"
 #include "index/sqlite.h"
 #include "lode/indexer.h"
@@ -374,4 +375,28 @@ TEST_CASE("decoders reject corrupt blobs with a Corruption status") {
   auto round = codec::decompress_text(codec::compress_text(big));
   REQUIRE(round.ok());
   CHECK(*round == big);
+}
+
+TEST_CASE("bit packing round-trips every width and block size, reading nothing past the packed bytes") {
+  std::uint64_t state = 12345;
+  auto next = [&]() {  // splitmix64: any fixed sequence will do
+    state += 0x9e3779b97f4a7c15ull;
+    std::uint64_t z = state;
+    z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9ull;
+    z = (z ^ (z >> 27)) * 0x94d049bb133111ebull;
+    return z ^ (z >> 31);
+  };
+  for (unsigned width = 0; width <= codec::kMaxPackWidth; ++width)
+    for (std::size_t n : {1, 2, 7, 9, 64, 127, 128}) {
+      std::vector<std::uint32_t> values(n);
+      for (auto& v : values) v = width == 0 ? 0 : static_cast<std::uint32_t>(next() & ((std::uint64_t{1} << width) - 1));
+      std::string packed;
+      codec::pack(packed, values.data(), n, width);
+      REQUIRE(packed.size() == codec::packed_bytes(n, width));
+      // A copy of exactly that size: a read past it would show under ASan.
+      std::vector<unsigned char> exact(packed.begin(), packed.end());
+      std::vector<std::uint32_t> back(n, 0xdeadbeef);
+      codec::unpack(exact.data(), exact.size(), back.data(), n, width);
+      CHECK_MESSAGE(back == values, "width " << width << ", n " << n);
+    }
 }
