@@ -1,6 +1,6 @@
 // lode/index.h — the inverted index in one SQLite file.
 //
-// Layout (documented byte by byte in docs/index-format.md, format version 2):
+// Layout (documented byte by byte in docs/index-format.md, format version 3):
 // documents with per-field lengths and a live flag, a term dictionary with
 // exact df/cf per (field, term), postings in blocks of up to 128 documents with
 // per-block max tf and min field length, positions per block, a forward index

@@ -43,17 +43,20 @@ std::vector<std::string> protect_dash_values(const CLI::App& app, int argc, cons
     if (dashed && !opt && t != "-h" && t != "--help") {
       if (wants_value && !out.empty()) {
         out.back() += "=" + t;
-      } else {
-        trailing.push_back(std::move(t));
+        wants_value = nullptr;
+        continue;
       }
-      wants_value = nullptr;
-      continue;
+      // "-storm" is a query; "--storm" is a mistyped option, left for CLI11 to name.
+      if (t[1] != '-') {
+        trailing.push_back(std::move(t));
+        continue;
+      }
     }
     if (!dashed && !wants_value) {  // a subcommand, at any depth ("eval compare")
       for (const CLI::App* sub : current->get_subcommands([](const CLI::App*) { return true; }))
         if (sub->get_name() == t) current = sub;
     }
-    wants_value = opt != nullptr && opt->get_type_size() > 0 && t.find('=') == std::string::npos ? opt : nullptr;
+    wants_value = opt != nullptr && opt->get_items_expected_min() > 0 && t.find('=') == std::string::npos ? opt : nullptr;
     out.push_back(std::move(t));
   }
   if (!trailing.empty()) {

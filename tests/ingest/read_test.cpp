@@ -97,7 +97,7 @@ TEST_CASE("binary files are recognised and skipped, not failed") {
   CHECK(r->content_hash.empty());
 
   // A real read failure is still an error.
-  r = lode::read_file(d.path() + "/missing.txt", {});
+  r = lode::read_file(d.path("missing.txt"), {});
   CHECK(r.status().code() == Code::kNotFound);
 
   // A NUL after the first 8 KiB is not looked for: still text.
