@@ -10,7 +10,7 @@ namespace {
 const std::string kLode = LODE_BINARY;
 }  // namespace
 
-TEST_CASE("CLI: binary and media files are skipped quietly and counted; real failures still exit 3") {
+TEST_CASE("CLI: binary and media files are skipped quietly and counted while real failures still exit 3") {
   TempDir dir;
   auto tree = dir.path() / "archive";
   write_file(tree / "notes" / "tide.md", "# Tide\n\nThe spring tide reached the north quay.");

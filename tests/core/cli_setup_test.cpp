@@ -72,7 +72,7 @@ TEST_CASE("CLI: the default index lives under XDG_DATA_HOME, and option > enviro
   CHECK(h.which(gamma_env, " --index " + h.dir.str("config/lode/beta.sqlite")) == "beta");
 }
 
-TEST_CASE("CLI: the config file sets model and field weights; options still win") {
+TEST_CASE("CLI: the config file sets model and field weights and options still win") {
   Homes h;
   int rc = -1;
   REQUIRE(h.lode("index -q " + h.dir.str("src-alpha"), &rc).empty());
