@@ -4,8 +4,8 @@
 set -euo pipefail
 
 packages=(
-  # build
-  build-essential cmake pkg-config
+  # build (python3 writes the manual page from the help text)
+  build-essential cmake pkg-config python3
   # libraries
   libsqlite3-dev libcpp-httplib-dev nlohmann-json3-dev libstemmer-dev libicu-dev
   libcli11-dev libzstd-dev libxxhash-dev
@@ -15,6 +15,8 @@ packages=(
   qpdf
   # tests: doctest, and outside references the tests compare against
   doctest-dev python3 python3-sklearn python3-scipy snowball-data
+  # tests: the Debian package (dpkg-deb comes with dpkg; man renders the manual)
+  man-db
   # tests: the web page in headless Chromium; bench: HTTP load generator
   chromium wrk
 )

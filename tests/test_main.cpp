@@ -5,8 +5,12 @@
 #define DOCTEST_CONFIG_IMPLEMENT
 #include <doctest/doctest.h>
 
+#include <stdlib.h>
+
 #include <cstdio>
 #include <cstdlib>
+#include <filesystem>
+#include <string>
 
 namespace {
 
@@ -38,4 +42,25 @@ struct MatchGuard : doctest::IReporter {
 
 REGISTER_LISTENER("match-guard", 1, MatchGuard);
 
-int main(int argc, char** argv) { return doctest::Context(argc, argv).run(); }
+// Every lode a test starts inherits these: its default index and config file
+// live in a fresh temporary folder, never in the real home (lode/config.h).
+// A test that checks the XDG rules sets its own.
+struct XdgSandbox {
+  std::string root;
+  XdgSandbox() {
+    std::string tmpl = (std::filesystem::temp_directory_path() / "lode-xdg-XXXXXX").string();
+    if (::mkdtemp(tmpl.data()) == nullptr) return;
+    root = tmpl;
+    ::setenv("XDG_DATA_HOME", (root + "/data").c_str(), 1);
+    ::setenv("XDG_CONFIG_HOME", (root + "/config").c_str(), 1);
+  }
+  ~XdgSandbox() {
+    std::error_code ec;
+    if (!root.empty()) std::filesystem::remove_all(root, ec);
+  }
+};
+
+int main(int argc, char** argv) {
+  XdgSandbox sandbox;
+  return doctest::Context(argc, argv).run();
+}

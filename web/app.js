@@ -4,8 +4,10 @@
 
 const $ = (id) => document.getElementById(id);
 const PAGE = 10;
-const DEFAULTS = { model: "bm25", k1: "1.2", b: "0.75", weighting: "lnc.ltc" };
-const state = { q: "", model: "bm25", k1: "1.2", b: "0.75", weighting: "lnc.ltc", page: 1 };
+const DEFAULTS = { model: "bm25", k1: "1.2", b: "0.75", weighting: "lnc.ltc", title_weight: "2", body_weight: "1" };
+// The metadata filters of the query syntax, each with its control (id f-NAME).
+const FILTERS = ["kind", "in", "since", "until", "by", "pages"];
+const state = { q: "", ...DEFAULTS, page: 1, filters: {} };
 let lastResults = null;
 let inflight = null;
 let retune = 0;
@@ -18,6 +20,10 @@ function readUrl() {
   state.k1 = u.get("k1") || DEFAULTS.k1;
   state.b = u.get("b") || DEFAULTS.b;
   state.weighting = u.get("weighting") || DEFAULTS.weighting;
+  state.title_weight = u.get("title_weight") || DEFAULTS.title_weight;
+  state.body_weight = u.get("body_weight") || DEFAULTS.body_weight;
+  state.filters = {};
+  for (const f of FILTERS) if (u.get(f)) state.filters[f] = u.get(f);
   state.page = Math.max(1, parseInt(u.get("page") || "1", 10) || 1);
 }
 
@@ -29,6 +35,8 @@ function writeUrl(push) {
     if (state.k1 !== DEFAULTS.k1) u.set("k1", state.k1);
     if (state.b !== DEFAULTS.b) u.set("b", state.b);
   } else if (state.weighting !== DEFAULTS.weighting) u.set("weighting", state.weighting);
+  for (const w of ["title_weight", "body_weight"]) if (state[w] !== DEFAULTS[w]) u.set(w, state[w]);
+  for (const f of FILTERS) if (state.filters[f]) u.set(f, state.filters[f]);
   if (state.page > 1) u.set("page", String(state.page));
   const url = "/" + (u.toString() ? "?" + u.toString() : "");
   if (url === location.pathname + location.search) return;
@@ -41,12 +49,25 @@ function showState() {
   $("k1").value = state.k1; $("k1-out").value = Number(state.k1).toFixed(2);
   $("b").value = state.b; $("b-out").value = Number(state.b).toFixed(2);
   $("weighting").value = state.weighting;
+  for (const w of ["title_weight", "body_weight"]) {
+    $(w).value = state[w];
+    $(w + "-out").value = Number(state[w]).toFixed(2);
+  }
+  for (const f of FILTERS) $("f-" + f).value = state.filters[f] || "";
   document.body.dataset.model = state.model;
+}
+
+// The query sent: the words typed plus one @name:value item per filter set.
+function fullQuery() {
+  const items = FILTERS.filter((f) => state.filters[f]).map((f) => "@" + f + ":" + state.filters[f].replace(/\s+/g, ""));
+  return [state.q, ...items].join(" ").trim();
 }
 
 // ---- API
 function apiParams(extra) {
-  const p = new URLSearchParams({ q: state.q, model: state.model, ...extra });
+  const p = new URLSearchParams({ q: fullQuery(), model: state.model, ...extra });
+  p.set("title_weight", state.title_weight);
+  p.set("body_weight", state.body_weight);
   if (state.model === "bm25") { p.set("k1", state.k1); p.set("b", state.b); }
   else p.set("weighting", state.weighting);
   return p;
@@ -96,12 +117,18 @@ function termShares(hit) {
   return by;
 }
 
+// The word a reader knows for an index term (the API's `words`); the
+// breakdown table keeps the terms themselves, as that is analysis.
+let words = {};
+const wordOf = (term) => words[term] || term;
+
 function renderLegend(order) {
   const ol = $("legend");
   ol.replaceChildren();
   for (const t of order) {
     const li = el("li", termClass(order, t));
-    li.append(el("span", "swatch"), el("span", "", t));
+    li.title = "index term: " + t;
+    li.append(el("span", "swatch"), el("span", "", wordOf(t)));
     ol.append(li);
   }
 }
@@ -164,9 +191,9 @@ function renderHit(hit, order) {
     const pct = hit.score > 0 ? (100 * part) / hit.score : 0;
     const seg = el("span", termClass(order, term));
     seg.style.width = pct.toFixed(2) + "%";
-    seg.title = term + " " + pct.toFixed(0) + "%";
+    seg.title = wordOf(term) + " " + pct.toFixed(0) + "%";
     bar.append(seg);
-    label.push(term + " " + pct.toFixed(0) + "%");
+    label.push(wordOf(term) + " " + pct.toFixed(0) + "%");
   }
   bar.setAttribute("role", "img");
   bar.setAttribute("aria-label", "share of the score: " + label.join(", "));
@@ -194,6 +221,7 @@ function toggleWhy(li) {
 
 function render(res) {
   lastResults = res;
+  words = res.words || {};
   const hits = res.hits;
   const order = termOrder(hits);
   renderLegend(order);
@@ -216,7 +244,7 @@ function render(res) {
 
 async function search() {
   showState();
-  if (!state.q.trim()) {
+  if (!fullQuery()) {
     $("hits").replaceChildren(); $("legend").replaceChildren(); $("pager").hidden = true;
     $("status").textContent = "Type a query and press Enter.";
     return;
@@ -361,7 +389,7 @@ $("ask").addEventListener("submit", (ev) => {
   search();
 });
 for (const r of document.querySelectorAll('input[name="model"]')) r.addEventListener("change", () => setModel(r.value));
-for (const id of ["k1", "b"]) {
+for (const id of ["k1", "b", "title_weight", "body_weight"]) {
   $(id).addEventListener("input", () => {
     state[id] = $(id).value;
     $(id + "-out").value = Number($(id).value).toFixed(2);
@@ -371,6 +399,15 @@ for (const id of ["k1", "b"]) {
 }
 $("weighting").addEventListener("change", () => { state.weighting = $("weighting").value; setModel("tfidf"); });
 $("defaults").addEventListener("click", () => { Object.assign(state, DEFAULTS, { page: 1 }); writeUrl(false); search(); });
+for (const f of FILTERS) {
+  $("f-" + f).addEventListener("change", () => {
+    const v = $("f-" + f).value.trim();
+    if (v) state.filters[f] = v; else delete state.filters[f];
+    state.page = 1;
+    writeUrl(true);
+    search();
+  });
+}
 $("prev").addEventListener("click", () => turnPage(-1));
 $("next").addEventListener("click", () => turnPage(1));
 $("reader-close").addEventListener("click", closeDocument);

@@ -9,6 +9,12 @@
 // is reported in IndexReport::problems, recorded in the index (see
 // IndexWriter::record_problems), and the file's previous version stays indexed.
 //
+// Document ids: a file's documents are named by its path relative to the root
+// it was found under (a JSON Lines record by its id field). Two files with the
+// same relative path under two roots therefore give the same id: both are
+// indexed, and each such file of a run gets a warning naming the other; a
+// lookup by that id finds only one of them.
+//
 // Extraction runs on `jobs` worker threads (std::jthread); the calling thread
 // alone talks to the IndexWriter and applies the results in crawl order, so a
 // run gives the same document ids whatever the thread count.
@@ -77,6 +83,9 @@ struct FileProblem {
   std::string message;  // the error, naming the reason
 };
 
+// The kind recorded for a skipped binary or media file (it has no documents).
+inline constexpr const char* kSkippedKind = "binary";
+
 struct IndexReport {
   std::size_t added = 0;      // files new to the index
   std::size_t updated = 0;    // files whose content changed
@@ -84,11 +93,16 @@ struct IndexReport {
   std::size_t removed = 0;    // files gone from disk, removed from the index
   std::size_t renamed = 0;    // files moved without a content change (not re-read)
   std::size_t failed = 0;     // files that could not be read (see problems)
+  std::size_t skipped = 0;    // binary and media files recognised and not indexed
+                              // (ReadResult::skipped): not failures; recorded with
+                              // kind kSkippedKind so they are not read again while
+                              // their size and mtime stay the same
   std::size_t documents = 0;  // documents added or replaced
   std::uint64_t bytes_read = 0;
   bool cancelled = false;
   std::vector<FileProblem> problems;  // failed files and crawl problems
-  std::vector<FileProblem> warnings;  // files indexed with a warning (bad UTF-8, bad JSONL lines)
+  std::vector<FileProblem> warnings;  // files indexed with a warning (bad UTF-8, bad JSONL lines,
+                                      // a document id another root's file already gives)
   std::map<std::string, KindCount> by_kind;  // read and failed files by kind (extension for failures)
 };
 

@@ -137,6 +137,10 @@ struct ReadResult {
                                       // canonical big-endian order xxhsum prints
   std::int64_t size = 0;              // bytes read
   std::int64_t mtime_ns = 0;          // modification time when read (ns since the epoch)
+  // Not empty when the file is binary or media data, recognised and not read
+  // for text ("image (.png)", "binary (NUL byte at offset 12)"); documents and
+  // warnings are then empty, and content_hash too when the extension alone decided.
+  std::string skipped;
   std::vector<std::string> warnings;  // e.g. "invalid UTF-8 at byte 17 (3 sequences replaced)"
                                       // at most one per kind of problem per file,
                                       // except bad JSON Lines lines: the first 10
@@ -147,9 +151,12 @@ struct ReadResult {
 // .jsonl/.ndjson are JSON Lines, .md/.markdown Markdown, anything else
 // (.txt, .text, no extension, .log, ...) plain text.
 //
-// Every format: a file with a NUL byte in its first 8 KiB, or with more than
-// 30% of its characters not valid UTF-8, is refused as binary (Unsupported,
-// "<path>: binary file (...)"). Otherwise invalid UTF-8 is replaced by U+FFFD
+// Binary and media files are not errors: a name with a media, archive, font
+// or program extension (.png, .mp3, .zip, .ttf, .exe, ...; the file is not
+// opened beyond a stat), content with such a signature (PNG, JPEG, MP4, ELF,
+// SQLite, ...), and in every text format a NUL byte in the first 8 KiB or more
+// than 30% of the characters not valid UTF-8, give a ReadResult with
+// `skipped` saying what the file is. Otherwise invalid UTF-8 is replaced by U+FFFD
 // with one warning giving the first bad byte's offset in the file and the
 // count. A UTF-8 byte order mark is dropped; CRLF and lone CR become '\n'.
 // An empty or whitespace-only file gives no document and the warning

@@ -7,6 +7,7 @@
 // (single-threaded) Analyzer.
 #pragma once
 
+#include <map>
 #include <nlohmann/json.hpp>
 #include <string_view>
 #include <unordered_set>
@@ -18,7 +19,7 @@ namespace lode {
 
 inline constexpr const char* kSearchSchema = "lode.search/1";
 inline constexpr const char* kStatsSchema = "lode.stats/1";
-inline constexpr const char* kExplainSchema = "lode.explain/1";
+inline constexpr const char* kBreakdownSchema = "lode.breakdown/1";
 inline constexpr const char* kDocumentSchema = "lode.document/1";
 
 // The model and its parameters as used ("name", "k1"/"b" or "weighting", "field_weights").
@@ -29,7 +30,20 @@ nlohmann::json stats_json(const CollectionStats& stats, const IndexSettings& set
 
 // One document's breakdown for a query: {schema, query, model, matches, hit}
 // with `hit` as in hit_json but without "rank".
-nlohmann::json explain_json(std::string_view query, const Hit& hit, const SearchOptions& options);
+nlohmann::json breakdown_json(std::string_view query, const Hit& hit, const SearchOptions& options);
+
+// Text of each field read per hit by hit_words(): enough for a page of hits
+// to show every term's usual word, little enough to stay fast on long
+// documents (a bound, not tuned).
+inline constexpr std::size_t kHitWordBytes = 64 * 1024;
+
+// The word each term of the hits' breakdowns stands for: its most frequent
+// word in the hits' stored text (first kHitWordBytes of each field), e.g.
+// {"damag": "damage"} (lode/surface.h). Empty when the hits carry no
+// breakdown. Opens its own read scope on `reader` (REQUIRES: none active).
+// Errors: those of IndexReader::stored_text (a hit removed since the search is skipped).
+Result<std::map<std::string, std::string>> hit_words(IndexReader& reader, Analyzer& analyzer,
+                                                      const std::vector<Hit>& hits);
 
 // The analyzed terms a query ranks or requires; excluded words are left out.
 std::unordered_set<std::string> query_terms(const Query& query);

@@ -20,7 +20,12 @@
 // An unknown @name: or a bad value is InvalidArgument naming it.
 // A bare word that the analyzer splits into several terms ("e-mail") counts as
 // separate ranked words; with + or - it counts as a phrase. Stopwords in bare
-// words are dropped with a warning. An unclosed quote runs to the end.
+// words are dropped with a warning.
+// Queries that run but probably do not say what was meant get a warning in
+// Query::warnings (never an error): an unclosed quote (it runs to the end), a
+// word before ':' that is not a field ("author:tulloch", searched as words), a
+// @kind: value no reader gives (it matches nothing), and a query whose only
+// words are excluded (it matches nothing).
 //
 // Thread safety: parse_query uses the given Analyzer, which is single-threaded.
 #pragma once
@@ -63,8 +68,9 @@ struct Query {
 };
 
 // Parses and analyzes `text`. Errors: Limit (too long, too many words; the
-// message names the limit), InvalidArgument (invalid UTF-8, an unknown field
-// before ':' is NOT an error: "foo:bar" is searched as words).
+// message names the limit), InvalidArgument (invalid UTF-8, an unknown
+// @filter or a bad filter value). An unknown field before ':' is NOT an
+// error: "foo:bar" is searched as words, with a warning.
 Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits = {});
 
 }  // namespace lode

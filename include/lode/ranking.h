@@ -71,6 +71,11 @@ struct SmartWeighting {
   std::string notation() const;  // "lnc.ltc"
 };
 
+// A logarithm base as users write it, the same in every command and the API:
+// a number above 1, or "e" (2.718...). InvalidArgument "<name> must be a
+// number above 1 or e, not '<text>'" otherwise.
+Result<double> parse_log_base(std::string_view text, std::string_view name);
+
 // Weight functions, exposed for tests and for the matrix export.
 double smart_tf(char letter, double tf, double max_tf, double avg_tf, double length, double log_base);
 double smart_idf(char letter, double n_docs, double df, double log_base);

@@ -4,7 +4,7 @@
 // /api/v1/openapi.yaml):
 //   GET  /api/v1/search      ranked hits (the lode.search/1 shape of `lode search --json`)
 //   POST /api/v1/search      the same, parameters as a JSON object in the body
-//   GET  /api/v1/explain     one document's per-term breakdown for a query
+//   GET  /api/v1/breakdown   one document's per-term breakdown for a query
 //   GET  /api/v1/document    one document's stored text with the query's words marked
 //   GET  /api/v1/stats       collection statistics (lode.stats/1)
 //   GET  /api/v1/health      liveness and the indexes served

@@ -46,7 +46,9 @@ struct ThemeOptions {
 };
 
 struct ThemeTerm {
-  std::string term;
+  std::string term;  // the analyzed term (a stem), for analysis
+  std::string word;  // its most frequent word in the group's most central
+                     // documents (lode/surface.h), for reading
   double weight = 0;
 };
 

@@ -14,19 +14,19 @@ std::string System::label() const {
   return run_file.empty() ? index + ": " + describe(options) : "run " + run_file;
 }
 
-Result<System> base_system(const EvalArgs& a, const std::string& index_flag) {
+Result<System> base_system(const EvalArgs& a, const Setup& setup) {
   System s;
   s.run_file = a.run_file;
-  s.index = resolve_index(index_flag);
+  s.index = resolve_index(setup);
   auto o = to_search_options(a.model);
   if (!o) return o.status();
   s.options = *o;
   return s;
 }
 
-Result<System> derived_system(const EvalArgs& a, const std::string& index_flag, const std::string& settings) {
+Result<System> derived_system(const EvalArgs& a, const Setup& setup, const std::string& settings) {
   EvalArgs copy = a;
-  std::string index = resolve_index(index_flag), run_file = a.run_file;
+  std::string index = resolve_index(setup), run_file = a.run_file;
   CLI::App parser{"system settings"};
   add_model_options(parser, copy.model);
   parser.add_option("--index", index);
@@ -37,7 +37,7 @@ Result<System> derived_system(const EvalArgs& a, const std::string& index_flag, 
     return Status::InvalidArgument("settings '" + settings + "': " + e.what());
   }
   if (parser.count("--index") && !parser.count("--run")) run_file.clear();  // an index given means: search it
-  auto s = base_system(copy, "");
+  auto s = base_system(copy, setup);  // its index is replaced below
   if (!s) return s.status();
   s->index = index;
   s->run_file = run_file;
@@ -91,10 +91,10 @@ void print_report(const Evaluation& ev, const System& s, bool per_query) {
                 q.rprec, q.rr, q.recall_depth, q.judged_k, q.relevant);
 }
 
-int run_eval(const EvalArgs& a, const std::string& index_flag) {
+int run_eval(const EvalArgs& a, const Setup& setup) {
   auto qrels = load_judgments(a);
   if (!qrels) return fail(qrels.status());
-  auto system = base_system(a, index_flag);
+  auto system = base_system(a, setup);
   if (!system) return fail(system.status());
   auto run = system_run(*system, a);
   if (!run) return fail(run.status());
@@ -117,7 +117,7 @@ int run_eval(const EvalArgs& a, const std::string& index_flag) {
 
 }  // namespace
 
-Runner add_eval_command(CLI::App& app, const std::string& index_flag) {
+Runner add_eval_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<EvalArgs>();
   app.fallthrough();  // eval's options may follow `compare` / `sweep`
   app.add_option("--judgments", a->judgments, "relevance judgments, TREC qrels 'qid 0 docid grade'")
@@ -134,6 +134,7 @@ Runner add_eval_command(CLI::App& app, const std::string& index_flag) {
   app.add_flag("--per-query", a->per_query, "also list every judged query");
   app.add_option("--save-run", a->save_run, "write the run searched to this file (TREC format)")->type_name("FILE");
   app.add_option("--run-tag", a->run_tag, "last column of the saved run (default lode)");
+  apply_config(a->model, setup.config);
   add_model_options(app, a->model);
 
   auto* compare = app.add_subcommand("compare", "compare systems per query, with paired significance tests");
@@ -156,10 +157,10 @@ Runner add_eval_command(CLI::App& app, const std::string& index_flag) {
   sweep->add_option("--metric", a->metric, "map (default), ndcg@K, p@K, recall@K, rprec or rr");
   sweep->add_option("--svg", a->svg, "write the heat map here")->type_name("FILE");
 
-  return [a, &index_flag, compare, sweep] {
-    if (compare->parsed()) return run_eval_compare(*a, index_flag);
-    if (sweep->parsed()) return run_eval_sweep(*a, index_flag);
-    return run_eval(*a, index_flag);
+  return [a, &setup, compare, sweep] {
+    if (compare->parsed()) return run_eval_compare(*a, setup);
+    if (sweep->parsed()) return run_eval_sweep(*a, setup);
+    return run_eval(*a, setup);
   };
 }
 

@@ -32,12 +32,12 @@ void print_comparison(const Comparison& c, const System& cand, const EvalOptions
 
 }  // namespace
 
-int run_eval_compare(const EvalArgs& a, const std::string& index_flag) {
+int run_eval_compare(const EvalArgs& a, const Setup& setup) {
   auto metric = parse_metric(a.metric);
   if (!metric) return fail(metric.status());
   auto qrels = load_judgments(a);
   if (!qrels) return fail(qrels.status());
-  auto base = derived_system(a, index_flag, a.baseline);
+  auto base = derived_system(a, setup, a.baseline);
   if (!base) return fail(base.status());
   auto base_run = system_run(*base, a);
   if (!base_run) return fail(base_run.status());
@@ -51,7 +51,7 @@ int run_eval_compare(const EvalArgs& a, const std::string& index_flag) {
     std::printf("lode %s eval compare on %s\nbaseline:  %s\n", LODE_VERSION, metric_name(*metric, eo).c_str(),
                 base->label().c_str());
   for (const std::string& settings : a.candidates) {
-    auto cand = derived_system(a, index_flag, settings);
+    auto cand = derived_system(a, setup, settings);
     if (!cand) return fail(cand.status());
     auto cand_run = system_run(*cand, a);
     if (!cand_run) return fail(cand_run.status());

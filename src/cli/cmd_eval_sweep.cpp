@@ -9,7 +9,7 @@
 
 namespace lode::cli {
 
-int run_eval_sweep(const EvalArgs& a, const std::string& index_flag) {
+int run_eval_sweep(const EvalArgs& a, const Setup& setup) {
   auto metric = parse_metric(a.metric);
   if (!metric) return fail(metric.status());
   std::vector<SweepAxis> axes;
@@ -28,7 +28,7 @@ int run_eval_sweep(const EvalArgs& a, const std::string& index_flag) {
   if (!qrels) return fail(qrels.status());
   auto queries = load_queries(a);
   if (!queries) return fail(queries.status());
-  auto system = base_system(a, index_flag);
+  auto system = base_system(a, setup);
   if (!system) return fail(system.status());
   if (system->options.model != Model::kBm25 && (!a.sweep_k1.empty() || !a.sweep_b.empty()))
     return fail(Status::InvalidArgument("sweeping --k1 or --b needs --model bm25"));

@@ -36,8 +36,10 @@ class Progress {
   std::chrono::steady_clock::time_point start_, last_{};
 };
 
-int run_index(const IndexArgs& a, const std::string& index_flag, CLI::App& app) {
-  std::string path = resolve_index(index_flag);
+int run_index(const IndexArgs& a, const Setup& setup, CLI::App& app) {
+  auto resolved = resolve_index_for_writing(setup);
+  if (!resolved) return fail(resolved.status());
+  const std::string path = *resolved;
   auto writer = IndexWriter::open(path, settings_from(a, app), writer_options_from(a));
   if (!writer) return fail(writer.status());
   IndexRunOptions opts = run_options_from(a);
@@ -54,10 +56,10 @@ int run_index(const IndexArgs& a, const std::string& index_flag, CLI::App& app) 
 
 }  // namespace
 
-Runner add_index_command(CLI::App& app, const std::string& index_flag) {
+Runner add_index_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<IndexArgs>();
   add_index_options(app, *a);
-  return [a, &index_flag, &app] { return run_index(*a, index_flag, app); };
+  return [a, &setup, &app] { return run_index(*a, setup, app); };
 }
 
 }  // namespace lode::cli

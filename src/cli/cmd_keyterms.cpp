@@ -30,7 +30,7 @@ void print(const KeyTermResults& r) {
 
 }  // namespace
 
-Runner add_keyterms_command(CLI::App& app, const std::string& index_flag) {
+Runner add_keyterms_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<KeyTermArgs>();
   app.add_option("doc", a->doc, "document id as search prints it, or #N");
   app.add_option("--query", a->query, "key terms of this search's top hits instead");
@@ -38,7 +38,7 @@ Runner add_keyterms_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--top", a->top, "how many terms (default 15)");
   app.add_flag("--json", a->json, "print as JSON (schema lode.keyterms/1)");
   add_vector_options(app, a->vectors);
-  return [a, &index_flag] {
+  return [a, &setup] {
     if (a->doc.empty() == a->query.empty()) {
       std::fprintf(stderr, "lode: keyterms: give either a document or --query\n");
       return int{kExitUsage};
@@ -49,7 +49,7 @@ Runner add_keyterms_command(CLI::App& app, const std::string& index_flag) {
     o.vectors = *vo;
     o.top = a->top;
     o.hits = a->hits;
-    auto reader = open_reader(index_flag);
+    auto reader = open_reader(setup);
     if (!reader) return int{kExitError};
     nlohmann::json source;
     Result<KeyTermResults> r = Status::NotFound("");

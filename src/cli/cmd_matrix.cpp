@@ -10,7 +10,7 @@
 
 namespace lode::cli {
 
-Runner add_matrix_command(CLI::App& app, const std::string& index_flag) {
+Runner add_matrix_command(CLI::App& app, const Setup& setup) {
   struct Args {
     std::string out, tf = "count", idf = "log", log_base = "10", norm = "l2", fields = "body";
     MatrixOptions o;
@@ -28,7 +28,7 @@ Runner add_matrix_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--max-terms", a->o.max_terms, "keep the terms of highest df only (default 0 = all)");
   app.add_flag("--json", a->json, "print the summary as JSON (schema lode.matrix/1)");
   app.add_flag("-q,--quiet", a->quiet, "no progress on the terminal");
-  return [a, &index_flag] {
+  return [a, &setup] {
     static const std::map<std::string, char> tfs{{"count", 'n'}, {"share", 'r'}, {"log", 'l'}, {"binary", 'b'}};
     static const std::map<std::string, char> idfs{{"none", 'n'}, {"log", 't'}, {"smooth", 's'}};
     static const std::map<std::string, std::array<bool, kFieldCount>> fields{
@@ -51,7 +51,7 @@ Runner add_matrix_command(CLI::App& app, const std::string& index_flag) {
         if (done == total) std::fprintf(stderr, "\n");
       };
     MatrixFiles files{a->out + ".mtx", a->out + ".terms", a->out + ".docs"};
-    auto reader = open_reader(index_flag);
+    auto reader = open_reader(setup);
     if (!reader) return int{kExitError};
     auto r = export_matrix(*reader, o, files);
     if (!r) return fail(r.status());

@@ -13,8 +13,8 @@ struct ProblemsArgs {
   bool warnings = false;
 };
 
-int run_problems(const ProblemsArgs& a, const std::string& index_flag) {
-  auto reader = IndexReader::open(resolve_index(index_flag));
+int run_problems(const ProblemsArgs& a, const Setup& setup) {
+  auto reader = IndexReader::open(resolve_index(setup));
   if (!reader) return fail(reader.status());
   auto scope = (*reader)->begin();
   if (!scope) return fail(scope.status());
@@ -35,10 +35,10 @@ int run_problems(const ProblemsArgs& a, const std::string& index_flag) {
 
 }  // namespace
 
-Runner add_problems_command(CLI::App& app, const std::string& index_flag) {
+Runner add_problems_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<ProblemsArgs>();
   app.add_flag("--warnings", a->warnings, "also list files indexed with a warning");
-  return [a, &index_flag] { return run_problems(*a, index_flag); };
+  return [a, &setup] { return run_problems(*a, setup); };
 }
 
 }  // namespace lode::cli

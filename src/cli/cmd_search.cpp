@@ -55,15 +55,21 @@ void print_breakdown(const Hit& h, Model model) {
   std::printf("      %-18s %87s %12.6f\n", "= score", "", h.score);
 }
 
-int run_single(Searcher& searcher, const SearchArgs& a, const SearchOptions& o) {
+int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, const SearchOptions& o) {
   auto results = searcher.search(a.query, o);
   if (!results) return fail(results.status());
   if (a.json) {
-    std::cout << results_json(a.query, *results, o).dump(2) << "\n";
+    auto analyzer = Analyzer::create(reader.settings().analyzer);
+    if (!analyzer) return fail(analyzer.status());
+    auto words = hit_words(reader, **analyzer, results->hits);
+    if (!words) return fail(words.status());
+    nlohmann::json out = results_json(a.query, *results, o);
+    out["words"] = *words;
+    std::cout << out.dump(2) << "\n";
     return kExitOk;
   }
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
-  bool tty = stdout_is_tty();
+  bool tty = stdout_styled();
   std::printf("%s%llu matching documents (%s)\n", results->matched_exact ? "" : "at least ",
               static_cast<unsigned long long>(results->matched), describe(o).c_str());
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
@@ -96,23 +102,24 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
   return kExitOk;
 }
 
-int run_search(const SearchArgs& a, const std::string& index_flag, CLI::App& app) {
+int run_search(const SearchArgs& a, const Setup& setup, CLI::App& app) {
   if (a.batch.empty() == a.query.empty())
     return fail(Status::InvalidArgument("give either a QUERY or --batch FILE"));
   auto opts = to_options(a);
   if (!opts) return fail(opts.status());
-  auto reader = IndexReader::open(resolve_index(index_flag));
+  auto reader = IndexReader::open(resolve_index(setup));
   if (!reader) return fail(reader.status());
   auto searcher = Searcher::create(**reader);
   if (!searcher) return fail(searcher.status());
-  return a.batch.empty() ? run_single(**searcher, a, *opts) : run_batch(**searcher, a, *opts, app);
+  return a.batch.empty() ? run_single(**reader, **searcher, a, *opts) : run_batch(**searcher, a, *opts, app);
 }
 
 }  // namespace
 
-Runner add_search_command(CLI::App& app, const std::string& index_flag) {
+Runner add_search_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<SearchArgs>();
-  app.add_option("query", a->query, "the query: words, \"phrases\", +required, -excluded, title:word");
+  app.add_option("query", a->query, "the query: words, \"phrases\", +required, -excluded, title:word, @kind:... filters (may begin with -)");
+  apply_config(a->model, setup.config);
   add_model_options(app, a->model);
   app.add_option("--top", a->top, "number of hits (default 10; 1000 with --batch)");
   app.add_option("--offset", a->offset, "skip this many hits first (paging)");
@@ -124,7 +131,7 @@ Runner add_search_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--batch", a->batch, "queries file, one 'id<TAB>text' per line; prints a TREC run")
       ->type_name("FILE");
   app.add_option("--run-tag", a->run_tag, "last column of the TREC run (default lode-MODEL)");
-  return [a, &index_flag, &app] { return run_search(*a, index_flag, app); };
+  return [a, &setup, &app] { return run_search(*a, setup, app); };
 }
 
 }  // namespace lode::cli

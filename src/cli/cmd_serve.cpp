@@ -33,11 +33,14 @@ ServedIndex parse_served(const std::string& arg) {
   return {name.empty() ? "index" : name, arg};
 }
 
-// The token from --token-file (first line), else $LODE_SERVE_TOKEN, else none.
-Result<std::string> read_token(const std::string& file) {
+// The token from --token-file (first line), else $LODE_SERVE_TOKEN, else
+// from the config file's serve.token_file, else none.
+Result<std::string> read_token(std::string file, const UserConfig& config) {
   if (file.empty()) {
     const char* env = std::getenv("LODE_SERVE_TOKEN");
-    return std::string(env ? env : "");
+    if (env && *env) return std::string(env);
+    if (!config.serve_token_file) return std::string();
+    file = *config.serve_token_file;
   }
   std::ifstream in(file);
   if (!in) return Status::IOError("cannot read token file '" + file + "'");
@@ -48,11 +51,11 @@ Result<std::string> read_token(const std::string& file) {
   return token;
 }
 
-int run_serve(ServeArgs& a, const std::string& index_flag) {
+int run_serve(ServeArgs& a, const Setup& setup) {
   std::vector<ServedIndex> served;
-  if (a.indexes.empty() || !index_flag.empty()) served.push_back(parse_served(resolve_index(index_flag)));
+  if (a.indexes.empty() || !setup.index_flag.empty()) served.push_back(parse_served(resolve_index(setup)));
   for (const std::string& arg : a.indexes) served.push_back(parse_served(arg));
-  auto token = read_token(a.token_file);
+  auto token = read_token(a.token_file, setup.config);
   if (!token) return fail(token.status());
   a.options.token = *token;
   a.options.limits.max_body_bytes = a.max_body_kb * 1024;
@@ -96,8 +99,11 @@ int run_serve(ServeArgs& a, const std::string& index_flag) {
 
 }  // namespace
 
-Runner add_serve_command(CLI::App& app, const std::string& index_flag) {
+Runner add_serve_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<ServeArgs>();
+  // The config file's defaults; options given on the command line win.
+  if (setup.config.serve_address) a->options.address = *setup.config.serve_address;
+  if (setup.config.serve_port) a->options.port = *setup.config.serve_port;
   ServeLimits& l = a->options.limits;
   app.add_option("indexes", a->indexes, "indexes to serve as [NAME=]FILE (default: the --index file)");
   app.add_option("--address", a->options.address,
@@ -105,7 +111,8 @@ Runner add_serve_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--port", a->options.port, "port (default 7340; 0 = any free port)")->check(CLI::Range(0, 65535));
   app.add_option("--threads", a->options.threads, "worker threads (default 8)")->check(CLI::Range(1, 256));
   app.add_option("--token-file", a->token_file,
-                 "require the token in this file on every request (default: $LODE_SERVE_TOKEN if set)")
+                 "require the token in this file on every request (default: $LODE_SERVE_TOKEN if set, else the "
+                 "config file's serve.token_file)")
       ->type_name("FILE");
   app.add_option("--max-page", l.max_page, "most hits per request (default 100)")->check(CLI::Range(1, 10000));
   app.add_option("--max-query-bytes", l.max_query_bytes, "longest query (default 1024)")->check(CLI::Range(1, 16384));
@@ -114,7 +121,7 @@ Runner add_serve_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--time-budget-ms", a->time_budget_ms,
                  "longest wait for a reader and socket timeout, ms (default 10000)")
       ->check(CLI::Range(100, 600000));
-  return [a, &index_flag] { return run_serve(*a, index_flag); };
+  return [a, &setup] { return run_serve(*a, setup); };
 }
 
 }  // namespace lode::cli

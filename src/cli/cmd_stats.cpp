@@ -8,11 +8,11 @@
 
 namespace lode::cli {
 
-Runner add_stats_command(CLI::App& app, const std::string& index_flag) {
+Runner add_stats_command(CLI::App& app, const Setup& setup) {
   auto json = std::make_shared<bool>(false);
   app.add_flag("--json", *json, "print as JSON (schema lode.stats/1)");
-  return [json, &index_flag] {
-    std::string path = resolve_index(index_flag);
+  return [json, &setup] {
+    std::string path = resolve_index(setup);
     auto reader = IndexReader::open(path);
     if (!reader) return fail(reader.status());
     auto scope = (*reader)->begin();

@@ -9,7 +9,7 @@
 
 namespace lode::cli {
 
-Runner add_themes_command(CLI::App& app, const std::string& index_flag) {
+Runner add_themes_command(CLI::App& app, const Setup& setup) {
   struct Args {
     ThemeOptions o;
     bool json = false;
@@ -25,12 +25,12 @@ Runner add_themes_command(CLI::App& app, const std::string& index_flag) {
   app.add_option("--max-docs", a->o.max_documents, "group a seeded sample above this many documents (default 200000)");
   app.add_flag("--json", a->json, "print as JSON (schema lode.themes/1)");
   add_vector_options(app, a->vectors);
-  return [a, &index_flag] {
+  return [a, &setup] {
     auto vo = to_vector_options(a->vectors);
     if (!vo) return fail(vo.status());
     ThemeOptions o = a->o;
     o.vectors = *vo;
-    auto reader = open_reader(index_flag);
+    auto reader = open_reader(setup);
     if (!reader) return int{kExitError};
     auto r = find_themes(*reader, o);
     if (!r) return fail(r.status());
@@ -46,7 +46,7 @@ Runner add_themes_command(CLI::App& app, const std::string& index_flag) {
     for (std::size_t i = 0; i < r->themes.size(); ++i) {
       const Theme& t = r->themes[i];
       std::printf("\ngroup %zu: %zu documents, cohesion %.3f\n  terms:", i + 1, t.size, t.cohesion);
-      for (auto& w : t.terms) std::printf(" %s", w.term.c_str());
+      for (auto& w : t.terms) std::printf(" %s", w.word.c_str());
       std::printf("\n");
       for (auto& c : t.central) std::printf("  %.3f  %s\n", c.similarity, c.external_id.c_str());
     }

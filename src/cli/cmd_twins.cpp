@@ -9,7 +9,7 @@
 
 namespace lode::cli {
 
-Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
+Runner add_twins_command(CLI::App& app, const Setup& setup) {
   struct Args {
     double threshold = 0.9;
     std::size_t shingle = 1, top_terms = TwinOptions{}.top_terms, bands = 32, rows = 4;
@@ -29,7 +29,7 @@ Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
   app.add_flag("--json", a->json, "print as JSON (schema lode.twins/1)");
   app.add_flag("-q,--quiet", a->quiet, "no progress on the terminal");
   add_vector_options(app, a->vectors);
-  return [a, &index_flag] {
+  return [a, &setup] {
     auto vo = to_vector_options(a->vectors);
     if (!vo) return fail(vo.status());
     TwinOptions o;
@@ -45,7 +45,7 @@ Runner add_twins_command(CLI::App& app, const std::string& index_flag) {
         std::fprintf(stderr, "\rsignatures %zu/%zu", done, total);
         if (done == total) std::fprintf(stderr, "\n");
       };
-    auto reader = open_reader(index_flag);
+    auto reader = open_reader(setup);
     if (!reader) return int{kExitError};
     auto r = find_twins(*reader, o);
     if (!r) return fail(r.status());

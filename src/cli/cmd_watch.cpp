@@ -15,8 +15,10 @@ struct WatchArgs {
   int quiet_ms = 500;
 };
 
-int run_watch(const WatchArgs& a, const std::string& index_flag, CLI::App& app) {
-  std::string path = resolve_index(index_flag);
+int run_watch(const WatchArgs& a, const Setup& setup, CLI::App& app) {
+  auto resolved = resolve_index_for_writing(setup);
+  if (!resolved) return fail(resolved.status());
+  const std::string path = *resolved;
   auto writer = IndexWriter::open(path, settings_from(a.index, app), writer_options_from(a.index));
   if (!writer) return fail(writer.status());
   IndexRunOptions opts = run_options_from(a.index);
@@ -40,12 +42,12 @@ int run_watch(const WatchArgs& a, const std::string& index_flag, CLI::App& app) 
 
 }  // namespace
 
-Runner add_watch_command(CLI::App& app, const std::string& index_flag) {
+Runner add_watch_command(CLI::App& app, const Setup& setup) {
   auto a = std::make_shared<WatchArgs>();
   add_index_options(app, a->index);
   app.add_option("--settle-ms", a->quiet_ms, "wait this long after the last change before indexing (default 500)")
       ->check(CLI::Range(10, 600000));
-  return [a, &index_flag, &app] { return run_watch(*a, index_flag, app); };
+  return [a, &setup, &app] { return run_watch(*a, setup, app); };
 }
 
 }  // namespace lode::cli

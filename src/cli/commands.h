@@ -4,21 +4,23 @@
 #include <CLI/CLI.hpp>
 #include <functional>
 
+#include "cli/common.h"
+
 namespace lode::cli {
 
 // Each returns the function to run if its subcommand was chosen.
 using Runner = std::function<int()>;
-Runner add_index_command(CLI::App& app, const std::string& index_flag);
-Runner add_problems_command(CLI::App& app, const std::string& index_flag);
-Runner add_watch_command(CLI::App& app, const std::string& index_flag);
-Runner add_search_command(CLI::App& app, const std::string& index_flag);
-Runner add_stats_command(CLI::App& app, const std::string& index_flag);
-Runner add_eval_command(CLI::App& app, const std::string& index_flag);
-Runner add_serve_command(CLI::App& app, const std::string& index_flag);
-Runner add_like_command(CLI::App& app, const std::string& index_flag);
-Runner add_keyterms_command(CLI::App& app, const std::string& index_flag);
-Runner add_twins_command(CLI::App& app, const std::string& index_flag);
-Runner add_themes_command(CLI::App& app, const std::string& index_flag);
-Runner add_matrix_command(CLI::App& app, const std::string& index_flag);
+Runner add_index_command(CLI::App& app, const Setup& setup);
+Runner add_problems_command(CLI::App& app, const Setup& setup);
+Runner add_watch_command(CLI::App& app, const Setup& setup);
+Runner add_search_command(CLI::App& app, const Setup& setup);
+Runner add_stats_command(CLI::App& app, const Setup& setup);
+Runner add_eval_command(CLI::App& app, const Setup& setup);
+Runner add_serve_command(CLI::App& app, const Setup& setup);
+Runner add_nearest_command(CLI::App& app, const Setup& setup);
+Runner add_keyterms_command(CLI::App& app, const Setup& setup);
+Runner add_twins_command(CLI::App& app, const Setup& setup);
+Runner add_themes_command(CLI::App& app, const Setup& setup);
+Runner add_matrix_command(CLI::App& app, const Setup& setup);
 
 }  // namespace lode::cli

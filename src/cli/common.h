@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <string>
 
+#include "lode/config.h"
 #include "lode/status.h"
 
 namespace lode::cli {
@@ -17,13 +18,27 @@ enum Exit : int {
   kExitSomeFailed = 3,   // index: finished, but some files could not be read
 };
 
-inline constexpr const char* kDefaultIndex = "lode-index.sqlite";
+// What every command starts from: the global --index and the user's
+// folders and config file (lode/config.h), read before the arguments.
+struct Setup {
+  std::string index_flag;  // --index as given; "" when not given
+  BaseDirs dirs;
+  UserConfig config;       // empty when there is no config file
+};
 
-// --index if given, else $LODE_INDEX, else kDefaultIndex in the current folder.
-std::string resolve_index(const std::string& flag);
+// The index path, by the documented precedence: --index, else $LODE_INDEX,
+// else the config file's `index`, else dirs.default_index()
+// ($XDG_DATA_HOME/lode/index.sqlite).
+std::string resolve_index(const Setup& setup);
+// As resolve_index(), creating the default folder ($XDG_DATA_HOME/lode) if
+// it is the one chosen and missing, for the commands that write an index.
+Result<std::string> resolve_index_for_writing(const Setup& setup);
 
 bool stderr_is_tty();
 bool stdout_is_tty();
+// Whether to style output on stdout (bold words): a terminal, and NO_COLOR
+// unset or empty (https://no-color.org).
+bool stdout_styled();
 
 // Prints "lode: <status>" to stderr and returns the exit code for it.
 int fail(const Status& s);

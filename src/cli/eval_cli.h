@@ -34,10 +34,10 @@ struct System {
 };
 
 // The eval-level system: --run, or the index and the model options.
-Result<System> base_system(const EvalArgs& a, const std::string& index_flag);
+Result<System> base_system(const EvalArgs& a, const Setup& setup);
 // The base system changed by a settings string in the `lode search` option
 // vocabulary plus --index FILE and --run FILE, e.g. "--k1 0.9 --index b.sqlite".
-Result<System> derived_system(const EvalArgs& a, const std::string& index_flag, const std::string& settings);
+Result<System> derived_system(const EvalArgs& a, const Setup& setup, const std::string& settings);
 // The run of a system: read, or searched over `queries` (loaded on demand).
 Result<Run> system_run(const System& s, const EvalArgs& a);
 
@@ -45,7 +45,7 @@ Result<Qrels> load_judgments(const EvalArgs& a);
 Result<std::vector<QueryLine>> load_queries(const EvalArgs& a);
 EvalOptions eval_options(const EvalArgs& a);
 
-int run_eval_compare(const EvalArgs& a, const std::string& index_flag);
-int run_eval_sweep(const EvalArgs& a, const std::string& index_flag);
+int run_eval_compare(const EvalArgs& a, const Setup& setup);
+int run_eval_sweep(const EvalArgs& a, const Setup& setup);
 
 }  // namespace lode::cli

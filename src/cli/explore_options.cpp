@@ -3,32 +3,24 @@
 #include <cmath>
 
 #include "cli/common.h"
+#include "lode/ranking.h"
 #include "lode/similar.h"
 
 namespace lode::cli {
 
 void add_vector_options(CLI::App& app, VectorArgs& a) {
-  app.add_option("--weighting", a.weighting, "document vector tf and idf letters, SMART notation (default lt)")
+  // Not --weighting: that is search's document.query SMART notation (lnc.ltc).
+  app.add_option("--vector-weighting", a.weighting,
+                 "document vector tf and idf letters, SMART notation (default lt)")
       ->type_name("TI");
   app.add_option("--log-base", a.log_base, "base of the logarithms: a number or e (default 10)");
   app.add_option("--title-weight", a.title_weight, "weight of title terms (default 1)");
   app.add_option("--body-weight", a.body_weight, "weight of body terms (default 1)");
 }
 
-Result<double> parse_log_base(const std::string& text, const std::string& option) {
-  if (text == "e") return std::exp(1.0);
-  try {
-    std::size_t used = 0;
-    double v = std::stod(text, &used);
-    if (used == text.size() && v > 1) return v;
-  } catch (const std::exception&) {
-  }
-  return Status::InvalidArgument(option + " must be a number above 1 or e, not '" + text + "'");
-}
-
 Result<VectorOptions> to_vector_options(const VectorArgs& a) {
   if (a.weighting.size() != 2)
-    return Status::InvalidArgument("--weighting takes two SMART letters, tf then idf (e.g. lt), not '" +
+    return Status::InvalidArgument("--vector-weighting takes two SMART letters, tf then idf (e.g. lt), not '" +
                                    a.weighting + "'");
   VectorOptions o;
   o.tf = a.weighting[0];
@@ -41,8 +33,8 @@ Result<VectorOptions> to_vector_options(const VectorArgs& a) {
   return o;
 }
 
-std::unique_ptr<IndexReader> open_reader(const std::string& index_flag) {
-  auto reader = IndexReader::open(resolve_index(index_flag));
+std::unique_ptr<IndexReader> open_reader(const Setup& setup) {
+  auto reader = IndexReader::open(resolve_index(setup));
   if (!reader) {
     fail(reader.status());
     return nullptr;

@@ -6,6 +6,7 @@
 #include <memory>
 #include <string>
 
+#include "cli/common.h"
 #include "lode/index.h"
 #include "lode/status.h"
 #include "lode/vectors.h"
@@ -18,14 +19,12 @@ struct VectorArgs {
   double title_weight = 1.0, body_weight = 1.0;
 };
 
-// Registers --weighting, --log-base, --title-weight, --body-weight.
+// Registers --vector-weighting, --log-base, --title-weight, --body-weight.
 void add_vector_options(CLI::App& app, VectorArgs& args);
 Result<VectorOptions> to_vector_options(const VectorArgs& args);
-// "10" -> 10, "e" -> 2.718..., else InvalidArgument naming `option`.
-Result<double> parse_log_base(const std::string& text, const std::string& option);
 
 // Opens the index at the resolved path (error printed, nullptr on failure).
-std::unique_ptr<IndexReader> open_reader(const std::string& index_flag);
+std::unique_ptr<IndexReader> open_reader(const Setup& setup);
 // The document named on the command line, or an error already printed (nullopt).
 std::optional<DocId> named_document(IndexReader& reader, const std::string& name);
 

@@ -89,10 +89,10 @@ void print_report(const IndexReport& r, bool quiet, double seconds, const std::s
     std::fprintf(stderr, "  %-9s %6zu read  %7zu documents  %9.1f MB  %5zu failed\n", kind.c_str(), k.files,
                  k.documents, static_cast<double>(k.bytes) / 1e6, k.failed);
   std::fprintf(stderr,
-               "%s%zu added, %zu updated, %zu renamed, %zu unchanged, %zu removed, %zu failed; %zu documents "
-               "read (%.1f MB in %.2fs). Index %s: %llu documents, %llu terms.\n",
+               "%s%zu added, %zu updated, %zu renamed, %zu unchanged, %zu removed, %zu failed, %zu binary or "
+               "media skipped; %zu documents read (%.1f MB in %.2fs). Index %s: %llu documents, %llu terms.\n",
                r.cancelled ? "Stopped early (committed what was done): " : "", r.added, r.updated, r.renamed,
-               r.unchanged, r.removed, r.failed, r.documents, static_cast<double>(r.bytes_read) / 1e6, seconds,
+               r.unchanged, r.removed, r.failed, r.skipped, r.documents, static_cast<double>(r.bytes_read) / 1e6, seconds,
                index_path.c_str(), static_cast<unsigned long long>(st.documents),
                static_cast<unsigned long long>(st.terms));
 }

@@ -3,47 +3,60 @@
 #include <CLI/CLI.hpp>
 #include <cstdio>
 #include <exception>
+#include <algorithm>
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/dash_args.h"
 
 int main(int argc, char** argv) {
   CLI::App app{"lode — local full-text search with ranked, explainable results"};
   app.set_version_flag("--version", "lode " LODE_VERSION);
   app.require_subcommand(1);
-  std::string index_flag;
-  app.add_option("--index", index_flag,
-                 "index file (default: $LODE_INDEX, else ./lode-index.sqlite)")
+  lode::cli::Setup setup;
+  setup.dirs = lode::BaseDirs::from_environment();
+  if (auto config = lode::load_user_config(setup.dirs); !config) {
+    std::fprintf(stderr, "lode: %s\n", config.status().to_string().c_str());
+    return lode::cli::kExitUsage;
+  } else {
+    setup.config = std::move(config.value());
+  }
+  app.add_option("--index", setup.index_flag,
+                 "index file (default: $LODE_INDEX, else the config file's index, else "
+                 "$XDG_DATA_HOME/lode/index.sqlite)")
       ->type_name("FILE");
   // Options may come after the subcommand too: `lode search --index x.sqlite "q"`.
   app.fallthrough();
   std::vector<std::pair<CLI::App*, lode::cli::Runner>> runners;
   auto* index = app.add_subcommand("index", "add or update folders and files in the index");
-  runners.emplace_back(index, lode::cli::add_index_command(*index, index_flag));
+  runners.emplace_back(index, lode::cli::add_index_command(*index, setup));
   auto* problems = app.add_subcommand("problems", "files the index could not read, recorded by earlier runs");
-  runners.emplace_back(problems, lode::cli::add_problems_command(*problems, index_flag));
+  runners.emplace_back(problems, lode::cli::add_problems_command(*problems, setup));
   auto* watch = app.add_subcommand("watch", "index, then keep the index current as files change (Ctrl-C stops)");
-  runners.emplace_back(watch, lode::cli::add_watch_command(*watch, index_flag));
+  runners.emplace_back(watch, lode::cli::add_watch_command(*watch, setup));
   auto* search = app.add_subcommand("search", "ranked search, one query or a batch");
-  runners.emplace_back(search, lode::cli::add_search_command(*search, index_flag));
+  runners.emplace_back(search, lode::cli::add_search_command(*search, setup));
   auto* stats = app.add_subcommand("stats", "collection statistics and analyzer settings");
-  runners.emplace_back(stats, lode::cli::add_stats_command(*stats, index_flag));
+  runners.emplace_back(stats, lode::cli::add_stats_command(*stats, setup));
   auto* eval = app.add_subcommand("eval", "judged queries: metrics, comparisons with significance, sweeps");
-  runners.emplace_back(eval, lode::cli::add_eval_command(*eval, index_flag));
+  runners.emplace_back(eval, lode::cli::add_eval_command(*eval, setup));
   auto* serve = app.add_subcommand("serve", "HTTP JSON API and browser page (read-only; loopback by default)");
-  runners.emplace_back(serve, lode::cli::add_serve_command(*serve, index_flag));
-  auto* like = app.add_subcommand("like", "documents most similar to a document or a passage");
-  runners.emplace_back(like, lode::cli::add_like_command(*like, index_flag));
+  runners.emplace_back(serve, lode::cli::add_serve_command(*serve, setup));
+  auto* nearest = app.add_subcommand("nearest", "documents nearest to a document or a passage (TF-IDF cosine)");
+  runners.emplace_back(nearest, lode::cli::add_nearest_command(*nearest, setup));
   auto* keyterms = app.add_subcommand("keyterms", "the heaviest terms of a document or of a search's hits");
-  runners.emplace_back(keyterms, lode::cli::add_keyterms_command(*keyterms, index_flag));
+  runners.emplace_back(keyterms, lode::cli::add_keyterms_command(*keyterms, setup));
   auto* twins = app.add_subcommand("twins", "groups of near-duplicate documents");
-  runners.emplace_back(twins, lode::cli::add_twins_command(*twins, index_flag));
+  runners.emplace_back(twins, lode::cli::add_twins_command(*twins, setup));
   auto* themes = app.add_subcommand("themes", "topic groups of the archive (spherical k-means)");
-  runners.emplace_back(themes, lode::cli::add_themes_command(*themes, index_flag));
+  runners.emplace_back(themes, lode::cli::add_themes_command(*themes, setup));
   auto* matrix = app.add_subcommand("matrix", "export the TF-IDF document-term matrix (Matrix Market)");
-  runners.emplace_back(matrix, lode::cli::add_matrix_command(*matrix, index_flag));
+  runners.emplace_back(matrix, lode::cli::add_matrix_command(*matrix, setup));
   try {
-    app.parse(argc, argv);
+    // CLI11 takes the arguments last first.
+    std::vector<std::string> args = lode::cli::protect_dash_values(app, argc, argv);
+    std::reverse(args.begin(), args.end());
+    app.parse(args);
   } catch (const CLI::ParseError& e) {
     int rc = app.exit(e);
     return rc == 0 ? 0 : lode::cli::kExitUsage;

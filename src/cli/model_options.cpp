@@ -12,13 +12,18 @@ std::string fmt(double x) {
 }
 }  // namespace
 
+void apply_config(ModelArgs& a, const UserConfig& c) {
+  if (c.model) a.model = *c.model;
+  if (c.title_weight) a.title_weight = *c.title_weight;
+  if (c.body_weight) a.body_weight = *c.body_weight;
+}
+
 void add_model_options(CLI::App& app, ModelArgs& a) {
   app.add_option("--model", a.model, "bm25 (default) or tfidf");
   app.add_option("--k1", a.k1, "BM25 tf saturation (default 1.2)")->check(CLI::Range(0.0, 1000.0));
   app.add_option("--b", a.b, "BM25 length normalisation (default 0.75)")->check(CLI::Range(0.0, 1.0));
   app.add_option("--weighting", a.weighting, "TF-IDF SMART weighting, document.query (default lnc.ltc)");
-  app.add_option("--log-base", a.log_base, "base of the logs in TF-IDF weights (default 10)")
-      ->check(CLI::Range(1.000001, 1e9));
+  app.add_option("--log-base", a.log_base, "base of the logs in TF-IDF weights: a number or e (default 10)");
   app.add_option("--title-weight", a.title_weight, "weight of title matches (default " + fmt(a.title_weight) + ")")
       ->check(CLI::Range(0.0, 1e6));
   app.add_option("--body-weight", a.body_weight, "weight of body matches (default " + fmt(a.body_weight) + ")")
@@ -52,7 +57,9 @@ Result<SearchOptions> to_search_options(const ModelArgs& a) {
   o.fields = *fields;
   o.bm25 = {a.k1, a.b};
   o.smart = *w;
-  o.smart.log_base = a.log_base;
+  auto base = parse_log_base(a.log_base, "--log-base");
+  if (!base) return base.status();
+  o.smart.log_base = *base;
   o.field_weight = {a.title_weight, a.body_weight};
   o.feedback = {a.feedback_docs, a.feedback_terms, a.feedback_weight};
   return o;

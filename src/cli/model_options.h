@@ -7,6 +7,7 @@
 #include <CLI/CLI.hpp>
 #include <string>
 
+#include "lode/config.h"
 #include "lode/ranking.h"
 
 namespace lode::cli {
@@ -15,7 +16,7 @@ struct ModelArgs {
   std::string model = "bm25";
   double k1 = SearchOptions{}.bm25.k1, b = SearchOptions{}.bm25.b;
   std::string weighting = SearchOptions{}.smart.notation();
-  double log_base = SearchOptions{}.smart.log_base;
+  std::string log_base = "10";  // a number above 1 or e (SearchOptions{}.smart.log_base)
   double title_weight = SearchOptions{}.field_weight[0], body_weight = SearchOptions{}.field_weight[1];
   std::string fields{field_scoring_name(SearchOptions{}.fields)};
   std::size_t feedback_docs = SearchOptions{}.feedback.documents;
@@ -23,6 +24,9 @@ struct ModelArgs {
   double feedback_weight = SearchOptions{}.feedback.original_weight;
 };
 
+// Takes the config file's model and field weights as defaults (an option
+// given on the command line still wins). Call before add_model_options.
+void apply_config(ModelArgs& args, const UserConfig& config);
 // Registers the options on `app`, writing into `args` (which must outlive parsing).
 void add_model_options(CLI::App& app, ModelArgs& args);
 // The SearchOptions for `args`; InvalidArgument for an unknown model or

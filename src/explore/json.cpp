@@ -10,7 +10,7 @@ nlohmann::json vectors_json(const VectorOptions& o) {
           {"field_weights", {{"title", o.field_weight[0]}, {"body", o.field_weight[1]}}}};
 }
 
-nlohmann::json like_json(const nlohmann::json& source, const SimilarResults& r, const SimilarOptions& o) {
+nlohmann::json nearest_json(const nlohmann::json& source, const SimilarResults& r, const SimilarOptions& o) {
   nlohmann::json hits = nlohmann::json::array();
   for (std::size_t i = 0; i < r.hits.size(); ++i) {
     const SimilarHit& h = r.hits[i];
@@ -19,7 +19,7 @@ nlohmann::json like_json(const nlohmann::json& source, const SimilarResults& r, 
     hits.push_back({{"rank", i + 1}, {"doc", h.external_id}, {"title", h.title}, {"path", h.path},
                     {"similarity", h.similarity}, {"shared", shared}});
   }
-  return {{"schema", kLikeSchema}, {"source", source},          {"vectors", vectors_json(o.vectors)},
+  return {{"schema", kNearestSchema}, {"source", source},          {"vectors", vectors_json(o.vectors)},
           {"query_terms", r.query_terms}, {"candidates", r.candidates}, {"hits", hits}};
 }
 
@@ -62,7 +62,7 @@ nlohmann::json themes_json(const ThemeReport& r, const ThemeOptions& o) {
   nlohmann::json themes = nlohmann::json::array();
   for (auto& t : r.themes) {
     nlohmann::json terms = nlohmann::json::array(), central = nlohmann::json::array();
-    for (auto& w : t.terms) terms.push_back({{"term", w.term}, {"weight", w.weight}});
+    for (auto& w : t.terms) terms.push_back({{"term", w.term}, {"word", w.word}, {"weight", w.weight}});
     for (auto& c : t.central)
       central.push_back({{"doc", c.external_id}, {"title", c.title}, {"similarity", c.similarity}});
     themes.push_back({{"size", t.size}, {"cohesion", t.cohesion}, {"terms", terms}, {"central", central}});

@@ -1,11 +1,11 @@
 // Key terms: heaviest centroid entries, merged over fields, with surface forms
 // counted in the stored text (method in lode/keyterms.h).
 #include <algorithm>
-#include <map>
 #include <unordered_map>
 
 #include "explore/terms.h"
 #include "lode/keyterms.h"
+#include "lode/surface.h"
 
 namespace lode {
 
@@ -17,35 +17,6 @@ Status KeyTermOptions::check() const {
 }
 
 namespace {
-
-using SurfaceCounts = std::unordered_map<std::string, std::map<std::string, std::uint32_t>>;
-
-// Counts, per wanted stem, the folded words of `text` that analyze to it.
-void count_surfaces(Analyzer& analyzer, const std::string& text, SurfaceCounts& counts) {
-  auto words = analyzer.words(text);
-  auto tokens = analyzer.analyze(text).tokens;
-  std::size_t w = 0;
-  for (auto& t : tokens) {
-    auto it = counts.find(t.term);
-    if (it == counts.end()) continue;
-    while (w < words.size() && words[w].begin < t.begin) ++w;
-    // Both come from one segmentation, so a token starts where a word starts;
-    // the stem itself stands in if that ever fails.
-    bool same = w < words.size() && words[w].begin == t.begin;
-    ++it->second[same ? words[w].term : t.term];
-  }
-}
-
-std::string most_frequent(const std::map<std::string, std::uint32_t>& forms, std::uint32_t& total) {
-  const std::string* best = nullptr;
-  std::uint32_t best_n = 0;
-  total = 0;
-  for (auto& [word, n] : forms) {
-    total += n;
-    if (!best || n > best_n || (n == best_n && word.size() < best->size())) best = &word, best_n = n;
-  }
-  return best ? *best : std::string();
-}
 
 // Key terms of `docs` inside the caller's read scope.
 Result<KeyTermResults> key_terms(IndexReader& reader, const std::vector<DocId>& docs, const KeyTermOptions& o) {
@@ -72,18 +43,19 @@ Result<KeyTermResults> key_terms(IndexReader& reader, const std::vector<DocId>& 
 
   auto analyzer = Analyzer::create(reader.settings().analyzer);
   if (!analyzer) return analyzer.status();
-  SurfaceCounts counts;
-  for (auto& k : ranked) counts[k.term];
+  std::vector<std::string> wanted;
+  for (auto& k : ranked) wanted.push_back(k.term);
+  SurfaceForms forms(wanted);
   for (DocId d : out.documents)
     for (Field f : kAllFields) {
       if (o.vectors.field_weight[static_cast<std::size_t>(f)] == 0) continue;
       auto text = reader.stored_text(d, f);
       if (!text) return text.status();
-      count_surfaces(**analyzer, *text, counts);
+      forms.add(*text, **analyzer);
     }
   for (auto& k : ranked) {
-    k.surface = most_frequent(counts[k.term], k.occurrences);
-    if (k.surface.empty()) k.surface = k.term;
+    k.surface = forms.word(k.term);
+    k.occurrences = forms.occurrences(k.term);
   }
   out.terms = std::move(ranked);
   return out;

@@ -7,6 +7,7 @@
 #include "explore/minhash.h"
 #include "explore/terms.h"
 #include "explore/top_n.h"
+#include "lode/surface.h"
 #include "lode/themes.h"
 
 namespace lode {
@@ -100,7 +101,12 @@ Result<ThemeReport> find_themes(IndexReader& reader, const ThemeOptions& o) {
   report.converged = res.converged;
   report.documents = n;
 
-  // Describe each group, then order groups by size.
+  // Describe each group, then order groups by size. Its terms are shown as
+  // the words its most central documents use (lode/surface.h): enough text to
+  // count forms, little enough to read quickly (a bound, not tuned).
+  constexpr std::size_t kWordSample = 50;
+  auto analyzer = Analyzer::create(reader.settings().analyzer);
+  if (!analyzer) return analyzer.status();
   std::vector<Theme> themes(report.k);
   std::vector<std::vector<std::pair<double, std::size_t>>> members(report.k);
   for (std::size_t i = 0; i < n; ++i) {
@@ -118,11 +124,22 @@ Result<ThemeReport> find_themes(IndexReader& reader, const ThemeOptions& o) {
       if (res.centres[g][j] > 0) centre.push_back({data.columns[j], res.centres[g][j]});
     auto named = explore::merge_fields(src, centre, o.top_terms);
     if (!named) return named.status();
-    for (auto& w : *named) t.terms.push_back({w.term, w.weight});
     auto& m = members[g];
-    explore::keep_top(m, o.top_documents, [](const auto& a, const auto& b) {
+    explore::keep_top(m, std::max(o.top_documents, kWordSample), [](const auto& a, const auto& b) {
       return a.first != b.first ? a.first > b.first : a.second < b.second;
     });
+    std::vector<std::string> wanted;
+    for (auto& w : *named) wanted.push_back(w.term);
+    SurfaceForms forms(wanted);
+    for (auto& member : m)
+      for (Field f : kAllFields) {
+        if (o.vectors.field_weight[static_cast<std::size_t>(f)] == 0) continue;
+        auto text = reader.stored_text(data.docs[member.second], f);
+        if (!text) return text.status();
+        forms.add(*text, **analyzer);
+      }
+    for (auto& w : *named) t.terms.push_back({w.term, forms.word(w.term), w.weight});
+    if (m.size() > o.top_documents) m.resize(o.top_documents);
     for (auto& [c, i] : m) {
       auto doc = reader.document(data.docs[i]);
       if (!doc) return doc.status();

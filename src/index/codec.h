@@ -1,4 +1,4 @@
-// Byte encodings of the index blobs (see docs/index-format.md, format 1).
+// Byte encodings of the index blobs (see docs/index-format.md, format 4).
 // Encoders append to a std::string; decoders check every length and return
 // Corruption naming the blob instead of reading past the end.
 #pragma once

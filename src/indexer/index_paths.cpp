@@ -10,6 +10,7 @@
 #include <unordered_map>
 
 #include "indexer/extract_pool.h"
+#include "indexer/id_clash.h"
 #include "indexer/paths.h"
 #include "lode/indexer.h"
 
@@ -218,6 +219,12 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
   if (!fs::exists(info.path, ec) && !ec)
     return fail(info.path, Status::NotFound("vanished while being indexed"), old.has_value());
   if (stream) return apply_stream(info, read->content_hash, old);
+  if (!read->skipped.empty()) {  // binary or media: recorded without documents, not a failure
+    ++report_.skipped;
+    LODE_RETURN_IF_ERROR(store_problems(info.path, {}));
+    return writer_.put_file(FileRecord{info.path, root, read->size, read->mtime_ns, read->content_hash, kSkippedKind},
+                            {});
+  }
   report_.bytes_read += static_cast<std::uint64_t>(read->size);
   LODE_RETURN_IF_ERROR(store_warnings(info.path, read->warnings));
   FileRecord rec{info.path, root, read->size, read->mtime_ns, read->content_hash,
@@ -243,6 +250,12 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
   }
   auto held = held_under(writer_, roots_);
   if (!held) return held.status();
+  {
+    auto everything = writer_.files_with_prefix("");
+    if (!everything) return everything.status();
+    for (auto& clash : indexer::id_clashes(crawled->files, roots_, *everything))
+      report_.warnings.push_back(std::move(clash));
+  }
   auto recorded = writer_.problems();
   if (!recorded) return recorded.status();
   for (auto& p : *recorded) problem_paths_.insert(p.path);
@@ -278,7 +291,7 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     auto it = held->find(info.path);
     const FileRecord* old = it != held->end() ? &it->second : nullptr;
     if (old && old->size == info.size && old->mtime_ns == info.mtime_ns && old->root == indexer::root_of(info.path, roots_)) {
-      ++report_.unchanged;
+      ++(old->kind == kSkippedKind ? report_.skipped : report_.unchanged);
       prog_.bytes_done += static_cast<std::uint64_t>(info.size);
       continue;
     }

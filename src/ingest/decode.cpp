@@ -55,6 +55,10 @@ Status refuse_binary(std::string_view bytes, std::int64_t at, const std::string&
   return Status();
 }
 
+bool is_binary_refusal(const Status& s) {
+  return s.code() == Code::kUnsupported && s.message().find(": binary file (") != std::string::npos;
+}
+
 std::string invalid_utf8_warning(std::int64_t first_bad, std::size_t replaced) {
   return "invalid UTF-8 at byte " + std::to_string(first_bad) + " (" + std::to_string(replaced) +
          (replaced == 1 ? " sequence replaced)" : " sequences replaced)");

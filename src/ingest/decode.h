@@ -18,6 +18,10 @@ inline constexpr std::size_t kBinarySniffBytes = 8192;
 // kBinarySniffBytes; ok otherwise. For readers that see a file in pieces.
 Status refuse_binary(std::string_view bytes, std::int64_t at, const std::string& path);
 
+// Whether `s` is the refusal of refuse_binary() or decode_text() (a file
+// that is binary data, not text), as opposed to a real read failure.
+bool is_binary_refusal(const Status& s);
+
 // The one warning for repaired UTF-8: "invalid UTF-8 at byte <first_bad>
 // (<n> sequence(s) replaced)".
 std::string invalid_utf8_warning(std::int64_t first_bad, std::size_t replaced);

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "ingest/markdown_inline.h"
+#include "ingest/front_matter.h"
 #include "ingest/readers.h"
 #include "ingest/text_util.h"
 #include "lode/ingest.h"
@@ -16,6 +17,8 @@
 namespace lode {
 namespace {
 
+using ingest::FrontMatter;
+using ingest::front_matter;
 using ingest::make_title;
 using ingest::split_lines;
 using ingest::trim;
@@ -116,41 +119,6 @@ bool is_reference_definition(std::string_view t) {
   return close != std::string_view::npos && t.substr(1, close - 1).find('[') == std::string_view::npos;
 }
 
-struct FrontMatter {
-  std::size_t body_start = 0;  // first line after the front matter (0: none)
-  std::string title;           // its top-level "title:" value, quotes removed
-};
-
-// YAML front matter: "---" on the first line up to a "---" or "..." line.
-// Only "title:" is read; plain, quoted and block-scalar ("|", ">") values.
-FrontMatter front_matter(const std::vector<std::string_view>& lines) {
-  FrontMatter fm;
-  if (lines.empty() || trim(lines[0]) != "---") return fm;
-  std::size_t end = 1;
-  while (end < lines.size() && trim(lines[end]) != "---" && trim(lines[end]) != "...") ++end;
-  if (end == lines.size()) return fm;  // never closed: an ordinary thematic break
-  fm.body_start = end + 1;
-  for (std::size_t i = 1; i < end; ++i) {
-    if (lines[i].substr(0, 6) != "title:") continue;
-    std::string_view v = trim(lines[i].substr(6));
-    if (v.size() >= 2 && (v[0] == '"' || v[0] == '\'') && v.back() == v[0]) v = v.substr(1, v.size() - 2);
-    if (v != "|" && v != ">" && v != "|-" && v != ">-") {
-      fm.title = make_title(v);
-      break;
-    }
-    // Block scalar: the indented lines that follow, joined with spaces.
-    std::string joined;
-    for (std::size_t k = i + 1; k < end; ++k) {
-      if (lines[k].empty() || (lines[k][0] != ' ' && lines[k][0] != '\t')) break;
-      if (!joined.empty()) joined += ' ';
-      joined += trim(lines[k]);
-    }
-    fm.title = make_title(joined);
-    break;
-  }
-  return fm;
-}
-
 // The line-by-line pass. One instance per document.
 class BlockPass {
  public:
@@ -161,6 +129,8 @@ class BlockPass {
   Document run() {
     const FrontMatter fm = front_matter(lines_);
     set_title(fm.title);
+    doc_.author = fm.author;
+    doc_.date = fm.date;
     for (std::size_t li = fm.body_start; li < lines_.size(); ++li) line(li);
     // Blank lines at either end carry nothing.
     std::string& body = doc_.body;

@@ -14,6 +14,7 @@
 #include <system_error>
 
 #include "ingest/decode.h"
+#include "ingest/media.h"
 #include "ingest/readers.h"
 #include "ingest/text_util.h"
 #include "lode/analysis.h"
@@ -241,6 +242,16 @@ void cap_text(std::vector<Document>& docs, std::int64_t max_bytes, std::vector<s
 }  // namespace
 
 Result<ReadResult> read_file(const std::string& path, const ReadOptions& options) {
+  const std::string name = std::filesystem::path(path).filename().string();
+  if (auto media = ingest::media_by_extension(name)) {  // never read, whatever its size
+    auto opened = open_regular(path);
+    if (!opened) return opened.status();
+    ReadResult skipped;
+    skipped.size = static_cast<std::int64_t>((*opened)->st.st_size);
+    skipped.mtime_ns = mtime_of((*opened)->st);
+    skipped.skipped = std::move(*media);
+    return skipped;
+  }
   Result<FileBytes> file = read_bytes(path, options.max_file_bytes);
   if (!file.ok()) return file.status();
   const std::string& bytes = file->data;
@@ -249,7 +260,16 @@ Result<ReadResult> read_file(const std::string& path, const ReadOptions& options
   result.content_hash = hash_hex(bytes);
   result.size = static_cast<std::int64_t>(bytes.size());
   result.mtime_ns = file->mtime_ns;
-  auto parsed = parse(bytes, std::filesystem::path(path).filename().string(), path, options, false);
+  if (auto media = ingest::media_by_signature(bytes)) {
+    result.skipped = std::move(*media);
+    return result;
+  }
+  auto parsed = parse(bytes, name, path, options, false);
+  if (!parsed && ingest::is_binary_refusal(parsed.status())) {
+    const std::string m = parsed.status().message();
+    result.skipped = "binary" + m.substr(m.find(": binary file (") + std::string_view(": binary file").size());
+    return result;
+  }
   if (!parsed) return parsed.status();
   result.documents = std::move(parsed->documents);
   result.warnings = std::move(parsed->warnings);

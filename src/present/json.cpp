@@ -71,10 +71,10 @@ nlohmann::json stats_json(const CollectionStats& s, const IndexSettings& setting
           {"format_version", kIndexFormatVersion}};
 }
 
-nlohmann::json explain_json(std::string_view query, const Hit& hit, const SearchOptions& o) {
+nlohmann::json breakdown_json(std::string_view query, const Hit& hit, const SearchOptions& o) {
   nlohmann::json h = hit_json(hit, 0, true);
   h.erase("rank");
-  return {{"schema", kExplainSchema}, {"query", query},  {"model", model_json(o)},
+  return {{"schema", kBreakdownSchema}, {"query", query},  {"model", model_json(o)},
           {"matches", !hit.breakdown.empty()}, {"hit", h}};
 }
 

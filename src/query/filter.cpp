@@ -44,6 +44,19 @@ bool parse_date(std::string_view s, std::int64_t& start, std::int64_t& end) {
   return true;
 }
 
+// The kinds the readers give documents (lode/ingest.h, Document::kind).
+constexpr std::string_view kDocumentKinds = "text markdown jsonl html pdf docx odt epub email";
+
+bool is_document_kind(std::string_view kind) {
+  for (std::size_t b = 0; b < kDocumentKinds.size();) {
+    std::size_t e = kDocumentKinds.find(' ', b);
+    if (e == std::string_view::npos) e = kDocumentKinds.size();
+    if (kDocumentKinds.substr(b, e - b) == kind) return true;
+    b = e + 1;
+  }
+  return false;
+}
+
 bool parse_count(std::string_view s, std::uint32_t& out) {
   auto [p, ec] = std::from_chars(s.data(), s.data() + s.size(), out);
   return ec == std::errc() && p == s.data() + s.size();
@@ -51,7 +64,7 @@ bool parse_count(std::string_view s, std::uint32_t& out) {
 
 }  // namespace
 
-Result<bool> apply_filter_item(std::string_view item, DocFilter& f) {
+Result<bool> apply_filter_item(std::string_view item, DocFilter& f, std::vector<std::string>& warnings) {
   if (item.size() < 2 || item[0] != '@' || !((item[1] >= 'a' && item[1] <= 'z') || (item[1] >= 'A' && item[1] <= 'Z')))
     return false;
   const std::size_t colon = item.find(':');
@@ -62,7 +75,13 @@ Result<bool> apply_filter_item(std::string_view item, DocFilter& f) {
     for (std::size_t b = 0; b <= value.size();) {
       std::size_t e = value.find(',', b);
       if (e == std::string_view::npos) e = value.size();
-      if (e > b) f.kinds.emplace_back(value.substr(b, e - b));
+      if (e > b) {
+        const std::string_view kind = value.substr(b, e - b);
+        f.kinds.emplace_back(kind);
+        if (!is_document_kind(kind))
+          warnings.push_back("@kind:" + std::string(kind) + " matches no document: the kinds are " +
+                             std::string(kDocumentKinds));
+      }
       b = e + 1;
     }
   } else if (name == "in") {
@@ -84,7 +103,7 @@ Result<bool> apply_filter_item(std::string_view item, DocFilter& f) {
     if (!a.empty()) f.pages_min = lo;
     if (!b.empty()) f.pages_max = hi;
   } else {
-    return bad(item, "unknown filter (known: @kind @in @since @until @by @pages)");
+    return bad(item, std::string("unknown filter (known: ") + kFilterNames + ")");
   }
   return true;
 }

@@ -1,3 +1,4 @@
+#include <algorithm>
 #include <cctype>
 
 #include "lode/query.h"
@@ -15,6 +16,8 @@ struct RawItem {
   bool quoted = false;
   std::string_view text;
   std::string_view typed;
+  bool unclosed = false;               // a quote that runs to the end of the query
+  std::string_view unknown_field;      // "author" in "author:tulloch": not a field, searched as words
 };
 
 std::vector<RawItem> split_items(std::string_view q) {
@@ -36,14 +39,17 @@ std::vector<RawItem> split_items(std::string_view q) {
       if (auto f = parse_field(q.substr(i, j - i))) {
         item.field = f;
         i = j + 1;
+      } else if (j + 1 < q.size() && !is_space(q[j + 1])) {
+        item.unknown_field = q.substr(i, j - i);
       }
     }
     if (i < q.size() && q[i] == '"') {
       item.quoted = true;
-      std::size_t close = q.find('"', i + 1);
+      const std::size_t close = q.find('"', i + 1);
       std::size_t end = close == std::string_view::npos ? q.size() : close;
       item.text = q.substr(i + 1, end - i - 1);
       i = close == std::string_view::npos ? q.size() : close + 1;
+      item.unclosed = close == std::string_view::npos;
     } else {
       std::size_t end = i;
       while (end < q.size() && !is_space(q[end])) ++end;
@@ -67,8 +73,15 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
   std::size_t total_words = 0;
   std::string left_out;  // items without searchable words, reported in one note
   for (const RawItem& item : split_items(text)) {
+    if (item.unclosed)
+      query.warnings.push_back("unbalanced quote: the phrase " + std::string(item.typed) +
+                               " runs to the end of the query");
+    if (!item.unknown_field.empty())
+      query.warnings.push_back("'" + std::string(item.unknown_field) +
+                               ":' is not a field (fields: title: body:; filters: " + query::kFilterNames +
+                               "); '" + std::string(item.typed) + "' was searched as words");
     if (!item.quoted && item.occur == Occur::kShould && !item.field) {
-      auto is_filter = query::apply_filter_item(item.text, query.filter);
+      auto is_filter = query::apply_filter_item(item.text, query.filter, query.warnings);
       if (!is_filter) return is_filter.status();
       if (*is_filter) continue;
     }
@@ -94,6 +107,12 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
   }
   if (!left_out.empty())
     query.warnings.push_back("left out (stopwords or punctuation only): " + left_out);
+  const bool any_excluded = std::any_of(query.clauses.begin(), query.clauses.end(),
+                                        [](const Clause& c) { return c.occur == Occur::kMustNot; });
+  const bool any_positive = std::any_of(query.clauses.begin(), query.clauses.end(),
+                                        [](const Clause& c) { return c.occur != Occur::kMustNot; });
+  if (any_excluded && !any_positive)
+    query.warnings.push_back("only excluded words: add a word to search for (a -word only removes matches)");
   return query;
 }
 

@@ -1,9 +1,19 @@
 // Weight functions of the ranking models (formulas in include/lode/ranking.h).
+#include <charconv>
 #include <cmath>
 
 #include "lode/ranking.h"
 
 namespace lode {
+
+Result<double> parse_log_base(std::string_view text, std::string_view name) {
+  if (text == "e") return std::exp(1.0);
+  double v = 0;
+  auto [p, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+  if (ec == std::errc() && p == text.data() + text.size() && v > 1 && v <= 1e9) return v;
+  return Status::InvalidArgument(std::string(name) + " must be a number above 1 or e, not '" + std::string(text) +
+                                 "'");
+}
 
 std::string_view model_name(Model m) { return m == Model::kBm25 ? "bm25" : "tfidf"; }
 

@@ -115,7 +115,12 @@ Parsed<SearchRequest> parse_search(const Params& p, const ServeLimits& limits, b
     return bad_parameter(p.count("k1") ? "k1" : "b", "k1 and b apply to model bm25");
   auto k1 = number(p, "k1", o.bm25.k1, 0, 1000, "a number from 0 to 1000");
   auto b = number(p, "b", o.bm25.b, 0, 1, "a number from 0 to 1");
-  auto base = number(p, "log_base", o.smart.log_base, 1.000001, 1e9, "a number above 1");
+  Parsed<double> base = o.smart.log_base;
+  if (p.count("log_base")) {
+    auto parsed = parse_log_base(p.at("log_base"), "log_base");
+    if (!parsed) return bad_parameter("log_base", parsed.status().message());
+    base = *parsed;
+  }
   auto tw = number(p, "title_weight", o.field_weight[0], 0, 1e6, "a number from 0 to 1000000");
   auto bw = number(p, "body_weight", o.field_weight[1], 0, 1e6, "a number from 0 to 1000000");
   for (auto* v : {&k1, &b, &base, &tw, &bw})

@@ -38,7 +38,7 @@ Parsed<Paging> parse_paging(const Params& p, const ServeLimits& limits);
 struct SearchRequest {
   std::string index;   // served index name; empty = the first
   std::string query;   // q (required)
-  std::string doc;     // explain/document: the document id
+  std::string doc;     // breakdown/document: the document id
   SearchOptions options;
 };
 

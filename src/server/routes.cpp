@@ -68,12 +68,17 @@ void search(const Context& ctx, const httplib::Request& req, httplib::Response& 
   auto& r = std::get<SearchRequest>(parsed);
   auto lease = lease_for(ctx, r.index);
   LODE_SEND_IF_PROBLEM(lease);
-  auto results = std::get<Lease>(lease)->searcher->search(r.query, r.options);
+  ReaderSet& set = *std::get<Lease>(lease);
+  auto results = set.searcher->search(r.query, r.options);
   if (!results) return send_failure(req, res, from_status(results.status(), "q"));
-  send_json(res, results_json(r.query, *results, r.options));
+  auto words = hit_words(*set.reader, *set.analyzer, results->hits);
+  if (!words) return send_failure(req, res, from_status(words.status()));
+  nlohmann::json body = results_json(r.query, *results, r.options);
+  body["words"] = *words;
+  send_json(res, body);
 }
 
-void explain(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
+void breakdown(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
   auto parsed = parse_search(p, ctx.options.limits, false);
   LODE_SEND_IF_PROBLEM(parsed);
   auto& r = std::get<SearchRequest>(parsed);
@@ -91,7 +96,7 @@ void explain(const Context& ctx, const httplib::Request& req, httplib::Response&
   if (!id) return send_failure(req, res, from_status(id.status(), "doc"));
   auto hit = set.searcher->explain(r.query, *id, r.options);
   if (!hit) return send_failure(req, res, from_status(hit.status(), "q"));
-  send_json(res, explain_json(r.query, *hit, r.options));
+  send_json(res, breakdown_json(r.query, *hit, r.options));
 }
 
 void document(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
@@ -174,12 +179,12 @@ void add_api_routes(httplib::Server& http, const Context& ctx) {
   };
   const std::vector<std::string> model = {"index", "q", "model", "k1", "b", "weighting", "log_base",
                                           "title_weight", "body_weight", "fields"};
-  auto search_params = model, explain_params = model;
+  auto search_params = model, breakdown_params = model;
   search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets", "count_all"});
-  explain_params.push_back("doc");
+  breakdown_params.push_back("doc");
   http.Get("/api/v1/search", route(search_params, bind(search)));
   http.Post("/api/v1/search", route(search_params, bind(search)));
-  http.Get("/api/v1/explain", route(explain_params, bind(explain)));
+  http.Get("/api/v1/breakdown", route(breakdown_params, bind(breakdown)));
   http.Get("/api/v1/document", route({"index", "doc", "q"}, bind(document)));
   http.Get("/api/v1/documents", route({"index", "top", "offset"}, bind(listing)));
   http.Get("/api/v1/stats", route({"index"}, bind(stats)));

@@ -26,12 +26,12 @@ struct Fixture {
 };
 }  // namespace
 
-TEST_CASE("lode like / keyterms / twins / themes / matrix print their JSON schemas") {
+TEST_CASE("lode nearest / keyterms / twins / themes / matrix print their JSON schemas") {
   Fixture f;
   int rc = -1;
-  auto like = nlohmann::json::parse(f.lode("like d1 --json", &rc));
+  auto like = nlohmann::json::parse(f.lode("nearest d1 --json", &rc));
   CHECK(rc == 0);
-  CHECK(like["schema"] == "lode.like/1");
+  CHECK(like["schema"] == "lode.nearest/1");
   REQUIRE(!like["hits"].empty());
   CHECK(like["hits"][0]["doc"] == "d2");
   CHECK(like["hits"][0]["similarity"].get<double>() > 0.99);
@@ -62,7 +62,7 @@ TEST_CASE("lode like / keyterms / twins / themes / matrix print their JSON schem
 TEST_CASE("explore commands: unknown document exits 1 and bad options exit 2 with a message") {
   Fixture f;
   int rc = -1;
-  std::string out = f.lode("like no-such-doc", &rc);
+  std::string out = f.lode("nearest no-such-doc", &rc);
   CHECK(rc == 1);
   CHECK(out.find("no-such-doc") != std::string::npos);
   out = f.lode("matrix --out " + f.dir.str("y") + " --tf cubic", &rc);
@@ -73,7 +73,7 @@ TEST_CASE("explore commands: unknown document exits 1 and bad options exit 2 wit
   out = f.lode("twins --threshold 2", &rc);
   CHECK(rc == 2);
   CHECK(out.find("threshold") != std::string::npos);
-  out = f.lode("like d1 --weighting lq", &rc);
+  out = f.lode("nearest d1 --vector-weighting lq", &rc);
   CHECK(rc == 2);
   CHECK(out.find("idf letter 'q'") != std::string::npos);
 }

@@ -98,3 +98,37 @@ TEST_CASE("topic groups recover invented topics (adjusted Rand index by scikit-l
   o.k = 1;
   CHECK(find_themes(*reader, o).status().code() == Code::kInvalidArgument);
 }
+
+TEST_CASE("theme terms are shown as the words the group's documents use, not as stems") {
+  // English stemming: "generators"/"generator" -> "generat", "storms" -> "storm".
+  std::vector<std::pair<std::string, std::string>> docs;
+  for (int i = 0; i < 8; ++i) {
+    docs.push_back({"", "the generators failed and the generator house flooded; generators again " +
+                            std::to_string(i)});
+    docs.push_back({"", "puffins nesting on the puffin bank, puffins everywhere " + std::to_string(i)});
+  }
+  TempDir dir;
+  auto reader = open_built(dir, "words.sqlite", docs, AnalyzerOptions{});  // english, stemming
+  ThemeOptions o;
+  o.k = 2;
+  o.min_df = 2;
+  auto res = find_themes(*reader, o);
+  REQUIRE_MESSAGE(res.ok(), res.status().to_string());
+  auto analyzer = Analyzer::create(AnalyzerOptions{});
+  REQUIRE(analyzer.ok());
+  bool saw_generat = false;
+  for (auto& t : res->themes)
+    for (auto& w : t.terms) {
+      CAPTURE(w.term);
+      // The word analyzes back to the term, and is the most frequent form.
+      auto a = (*analyzer)->analyze(w.word);
+      REQUIRE(a.tokens.size() == 1);
+      CHECK(a.tokens[0].term == w.term);
+      if (w.term == "generat") {
+        saw_generat = true;
+        CHECK(w.word == "generators");  // 2 of 3 per document
+      }
+      if (w.term == "puffin") CHECK(w.word == "puffins");
+    }
+  CHECK(saw_generat);
+}

@@ -61,23 +61,44 @@ TEST_CASE("empty and blank files give no document and an 'empty file' warning") 
   }
 }
 
-TEST_CASE("binary files are refused naming the file") {
+TEST_CASE("binary files are recognised and skipped, not failed") {
   TempDir d;
-  const std::string with_nul = d.write("image.txt", std::string("GIF89a\0\0\x01", 9) + "text");
-  auto r = lode::read_file(with_nul, {});
-  REQUIRE_FALSE(r.ok());
-  CHECK(r.status().code() == Code::kUnsupported);
-  CHECK(mentions(r.status(), with_nul));
-  CHECK(mentions(r.status(), "binary file"));
+  // A GIF signature under a text name: content decides.
+  const std::string gif = d.write("image.txt", std::string("GIF89a\0\0\x01", 9) + "text");
+  auto r = lode::read_file(gif, {});
+  REQUIRE(r.ok());
+  CHECK(r->skipped == "image (GIF signature)");
+  CHECK(r->documents.empty());
+  CHECK_FALSE(r->content_hash.empty());
+
+  // A NUL byte with no known signature: binary.
+  const std::string with_nul = d.write("data.txt", std::string("abc\0\0\x01", 6) + "text");
+  r = lode::read_file(with_nul, {});
+  REQUIRE(r.ok());
+  CHECK(r->skipped == "binary (NUL byte at offset 3)");
 
   // No NUL, but mostly bytes that are not UTF-8.
   std::string noise;
   for (int i = 0; i < 4000; ++i) noise += static_cast<char>(0x80 + (i * 37) % 0x7F);
   const std::string noisy = d.write("blob.dat", noise);
   r = lode::read_file(noisy, {});
-  REQUIRE_FALSE(r.ok());
-  CHECK(r.status().code() == Code::kUnsupported);
-  CHECK(mentions(r.status(), noisy));
+  REQUIRE(r.ok());
+  CHECK(r->skipped.rfind("binary (", 0) == 0);
+  CHECK(r->documents.empty());
+
+  // A media extension decides without reading: even past the size limit.
+  const std::string big = d.write("Holiday.JPG", std::string(4096, 'x'));
+  lode::ReadOptions small;
+  small.max_file_bytes = 100;
+  r = lode::read_file(big, small);
+  REQUIRE(r.ok());
+  CHECK(r->skipped == "image (.jpg)");
+  CHECK(r->size == 4096);
+  CHECK(r->content_hash.empty());
+
+  // A real read failure is still an error.
+  r = lode::read_file(d.path("missing.txt"), {});
+  CHECK(r.status().code() == Code::kNotFound);
 
   // A NUL after the first 8 KiB is not looked for: still text.
   const std::string late_nul = std::string(9000, 'x') + std::string(1, '\0');

@@ -1,6 +1,8 @@
 // The JSON API over loopback with a real client: the same results as
-// `lode search --json`, the document, explain, stats and listing routes, and
+// `lode search --json`, the document, breakdown, stats and listing routes, and
 // RFC 9457 problems for every kind of bad request.
+#include <set>
+
 #include "server_util.h"
 
 using namespace lode;
@@ -44,6 +46,8 @@ TEST_CASE("API: search equals the CLI's --json output, field for field") {
       {{{"q", "\"tide gauge\""}, {"model", "tfidf"}, {"log_base", "2.718281828459045"}},
        "--model tfidf --log-base 2.718281828459045 '\"tide gauge\"'"},
       {{{"q", "storm damage harbour"}, {"top", "2"}, {"count_all", "true"}}, "--top 2 --count-all 'storm damage harbour'"},
+      {{{"q", "kelp"}, {"model", "tfidf"}, {"log_base", "e"}}, "--model tfidf --log-base e kelp"},
+      {{{"q", "storm \"great storm"}}, "'storm \"great storm'"},
   };
   for (auto& k : cases) {
     CAPTURE(k.cli);
@@ -76,7 +80,46 @@ TEST_CASE("API: search equals the CLI's --json output, field for field") {
   }
 }
 
-TEST_CASE("API: explain, document, stats, listing and health agree with the index") {
+TEST_CASE("API: query warnings, and the words behind the terms") {
+  Fixture f;
+  LiveServer server(f.index);
+  auto c = server.client();
+  auto has = [](const nlohmann::json& j, const std::string& part) {
+    for (auto& w : j["warnings"])
+      if (w.get<std::string>().find(part) != std::string::npos) return true;
+    return false;
+  };
+  CHECK(has(body_json(get(c, "/api/v1/search", {{"q", "\"north quay"}})), "unbalanced quote"));
+  CHECK(has(body_json(get(c, "/api/v1/search", {{"q", "author:tulloch"}})), "'author:' is not a field"));
+  CHECK(has(body_json(get(c, "/api/v1/search", {{"q", "storm @kind:photo"}})), "@kind:photo matches no document"));
+  auto only = body_json(get(c, "/api/v1/search", {{"q", "-storm"}}));
+  CHECK(has(only, "only excluded words"));
+  CHECK(only["hits"].empty());
+
+  // Every term of the breakdowns has a word; the word analyzes back to the
+  // term, and it is a word of the text, not a stem ("damage", never "damag").
+  auto res = body_json(get(c, "/api/v1/search", {{"q", "storm damage jetties"}}));
+  auto analyzer = Analyzer::create(AnalyzerOptions{});
+  REQUIRE(analyzer.ok());
+  std::set<std::string> terms;
+  for (auto& h : res["hits"])
+    for (auto& b : h["breakdown"]) terms.insert(b["term"].get<std::string>());
+  REQUIRE(terms.count("damag") == 1);
+  CHECK(res["words"]["damag"] == "damage");
+  for (auto& t : terms) {
+    CAPTURE(t);
+    REQUIRE(res["words"].contains(t));
+    const std::string word = res["words"][t];
+    auto analyzed = (*analyzer)->analyze(word);
+    REQUIRE(analyzed.tokens.size() == 1);
+    CHECK(analyzed.tokens[0].term == t);
+  }
+  // Without breakdowns there are no terms to name.
+  auto bare = body_json(get(c, "/api/v1/search", {{"q", "storm"}, {"breakdown", "false"}}));
+  CHECK(bare["words"].empty());
+}
+
+TEST_CASE("API: breakdown, document, stats, listing and health agree with the index") {
   Fixture f;
   LiveServer server(f.index);
   auto c = server.client();
@@ -84,14 +127,14 @@ TEST_CASE("API: explain, document, stats, listing and health agree with the inde
   REQUIRE(hits.size() == 3);
   std::string doc = hits[1]["doc"];
 
-  // explain: the same breakdown and score as the hit in the ranked list.
-  auto ex = body_json(get(c, "/api/v1/explain", {{"q", "storm damage"}, {"doc", doc}}));
-  CHECK(ex["schema"] == "lode.explain/1");
+  // breakdown: the same breakdown and score as the hit in the ranked list.
+  auto ex = body_json(get(c, "/api/v1/breakdown", {{"q", "storm damage"}, {"doc", doc}}));
+  CHECK(ex["schema"] == "lode.breakdown/1");
   CHECK(ex["matches"] == true);
   CHECK(ex["hit"]["doc"] == doc);
   CHECK(ex["hit"]["score"] == hits[1]["score"]);
   CHECK(ex["hit"]["breakdown"] == hits[1]["breakdown"]);
-  auto none = body_json(get(c, "/api/v1/explain", {{"q", "xylophone"}, {"doc", doc}}));
+  auto none = body_json(get(c, "/api/v1/breakdown", {{"q", "xylophone"}, {"doc", doc}}));
   CHECK(none["matches"] == false);
   CHECK(none["hit"]["score"] == 0.0);
 
@@ -205,8 +248,8 @@ TEST_CASE("API: bad parameters get problem details naming the parameter") {
   // The document routes need a known id.
   auto j = expect_problem(get(c, "/api/v1/document", {{"doc", "no/such/doc.txt"}}), 404, "not-found");
   CHECK(j["detail"].get<std::string>().find("no/such/doc.txt") != std::string::npos);
-  expect_problem(get(c, "/api/v1/explain", {{"q", "storm"}}), 400, "bad-parameter");
-  expect_problem(get(c, "/api/v1/explain", {{"q", "storm"}, {"doc", "nope"}}), 404, "not-found");
+  expect_problem(get(c, "/api/v1/breakdown", {{"q", "storm"}}), 400, "bad-parameter");
+  expect_problem(get(c, "/api/v1/breakdown", {{"q", "storm"}, {"doc", "nope"}}), 404, "not-found");
   // A body that is not a JSON object, and routes that do not exist.
   auto r = c.Post("/api/v1/search", "[1,2]", "application/json");
   REQUIRE(r);

@@ -3,6 +3,8 @@
 // hits the API returns, open a breakdown, switch the model and see the order
 // change, page, open a document, load a shared URL. Screenshots of a desktop
 // and a phone viewport are left in the test's working folder for review.
+#include <algorithm>
+
 #include "browser.h"
 #include "server_util.h"
 
@@ -22,13 +24,20 @@ std::vector<std::string> api_docs(httplib::Client& c, const httplib::Params& par
   return docs;
 }
 
+// The sample indexed into a temporary folder and served on loopback.
+struct ServedSample {
+  TempDir dir;
+  std::string index = dir.str("sample.sqlite");
+  bool indexed = (index_sample(index), true);  // before the server opens it
+  LiveServer server{index};
+};
+
 }  // namespace
 
 TEST_CASE("Browser: search, breakdown, model switch, paging and the reader in headless Chromium") {
-  TempDir dir;
-  std::string index = dir.str("sample.sqlite");
-  index_sample(index);
-  LiveServer server(index);
+  ServedSample sample;
+  TempDir& dir = sample.dir;
+  LiveServer& server = sample.server;
   auto c = server.client();
   const std::string query = "storm damage";
   auto bm25 = api_docs(c, {{"q", query}, {"top", "10"}});
@@ -119,4 +128,67 @@ TEST_CASE("Browser: search, breakdown, model switch, paging and the reader in he
   // Nothing spills sideways on the phone.
   CHECK(browser.eval(phone, "document.documentElement.scrollWidth <= window.innerWidth") == true);
   browser.screenshot(phone, "server-page-phone.png");
+}
+
+TEST_CASE("Browser: empty start page, filter and field-weight controls, words in the legend, query warnings") {
+  ServedSample sample;
+  TempDir& dir = sample.dir;
+  LiveServer& server = sample.server;
+  auto c = server.client();
+  Browser browser(dir.str("profile"));
+  std::string tab = browser.open(server.url() + "/", 1280, 900, false);
+
+  // The start page shows no pager (the `hidden` attribute must win over its flex layout).
+  REQUIRE(browser.wait_for(tab, "document.getElementById('status').textContent.startsWith('Type a query')"));
+  CHECK(browser.eval(tab, "document.getElementById('pager').hidden") == true);
+  CHECK(browser.eval(tab, "getComputedStyle(document.getElementById('pager')).display") == "none");
+
+  // The legend names terms by the words of the documents, not by their stems.
+  browser.press(tab, "/");
+  browser.type(tab, "storm damage");
+  browser.press(tab, "Enter");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && document.querySelectorAll('.hit').length > 0"));
+  auto legend = browser.eval(tab, "[...document.querySelectorAll('#legend li')].map(li => li.textContent)")
+                    .get<std::vector<std::string>>();
+  CHECK(std::find(legend.begin(), legend.end(), "damage") != legend.end());
+  CHECK(std::find(legend.begin(), legend.end(), "damag") == legend.end());
+  CHECK(browser.eval(tab, "[...document.querySelectorAll('#legend li')].some(li => li.title === 'index term: damag')") ==
+        true);
+
+  // A kind filter control: the hits are the API's for the query with @kind:markdown.
+  browser.eval(tab, "(() => { const s = document.getElementById('f-kind'); s.value = 'markdown'; "
+                    "s.dispatchEvent(new Event('change')); })()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && new URLSearchParams(location.search).get('kind') === 'markdown'"));
+  auto filtered = api_docs(c, {{"q", "storm damage @kind:markdown"}, {"top", "10"}});
+  REQUIRE(!filtered.empty());
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == filtered);
+  CHECK(browser.eval(tab, "[...document.querySelectorAll('.hit .kind')].every(k => k.textContent === 'markdown')") ==
+        true);
+  // Dates and author: the letters of late 1987 by A. Tulloch.
+  browser.eval(tab, "(() => { const s = document.getElementById('f-kind'); s.value = ''; "
+                    "s.dispatchEvent(new Event('change')); "
+                    "for (const [id, v] of [['f-since', '1987-10'], ['f-until', '1987-12'], ['f-by', 'tulloch']]) {"
+                    " const e = document.getElementById(id); e.value = v; e.dispatchEvent(new Event('change')); } })()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) + " && new URLSearchParams(location.search).get('by') === 'tulloch'"));
+  auto dated = api_docs(c, {{"q", "storm damage @since:1987-10 @until:1987-12 @by:tulloch"}, {"top", "10"}});
+  REQUIRE(!dated.empty());
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == dated);
+
+  // The title-weight control re-ranks as the API's title_weight does.
+  browser.eval(tab, "(() => { for (const id of ['f-since', 'f-until', 'f-by']) { const e = document.getElementById(id);"
+                    " e.value = ''; e.dispatchEvent(new Event('change')); }"
+                    " const t = document.getElementById('title_weight'); t.value = '0';"
+                    " t.dispatchEvent(new Event('input')); })()");
+  REQUIRE(browser.wait_for(tab, std::string(kReady) +
+                                    " && new URLSearchParams(location.search).get('title_weight') === '0'"
+                                    " && !new URLSearchParams(location.search).get('by')"));
+  auto untitled = api_docs(c, {{"q", "storm damage"}, {"title_weight", "0"}, {"top", "10"}});
+  CHECK(untitled != api_docs(c, {{"q", "storm damage"}, {"top", "10"}}));  // the control has something to show
+  CHECK(browser.eval(tab, kShownDocs).get<std::vector<std::string>>() == untitled);
+
+  // A query warning shows in the status line.
+  std::string warned = browser.open(server.url() + "/?q=%22north+quay", 1280, 900, false);
+  REQUIRE(browser.wait_for(warned, std::string(kReady)));
+  const std::string status = browser.eval(warned, "document.getElementById('status').textContent");
+  CHECK(status.find("unbalanced quote") != std::string::npos);
 }

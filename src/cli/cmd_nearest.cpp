@@ -1,4 +1,4 @@
-// `lode like DOC` / `lode like --text "passage"`: the most similar documents.
+// `lode nearest DOC` / `lode nearest --text "passage"`: the documents nearest to it.
 #include <cstdio>
 #include <iostream>
 
@@ -10,7 +10,7 @@
 namespace lode::cli {
 namespace {
 
-struct LikeArgs {
+struct NearestArgs {
   std::string doc, text;
   std::size_t top = 10, query_terms = 30, candidates = 500, shared = 5;
   bool json = false;
@@ -32,19 +32,19 @@ void print(const SimilarResults& r) {
 
 }  // namespace
 
-Runner add_like_command(CLI::App& app, const std::string& index_flag) {
-  auto a = std::make_shared<LikeArgs>();
+Runner add_nearest_command(CLI::App& app, const Setup& setup) {
+  auto a = std::make_shared<NearestArgs>();
   app.add_option("doc", a->doc, "document id as search prints it, or #N");
   app.add_option("--text", a->text, "find documents like this passage instead");
   app.add_option("--top", a->top, "how many documents (default 10)");
   app.add_option("--query-terms", a->query_terms, "heaviest source terms used to find candidates (default 30)");
   app.add_option("--candidates", a->candidates, "candidates scored exactly (default 500)");
   app.add_option("--shared", a->shared, "shared terms listed per document (default 5)");
-  app.add_flag("--json", a->json, "print as JSON (schema lode.like/1)");
+  app.add_flag("--json", a->json, "print as JSON (schema lode.nearest/1)");
   add_vector_options(app, a->vectors);
-  return [a, &index_flag] {
+  return [a, &setup] {
     if (a->doc.empty() == a->text.empty()) {
-      std::fprintf(stderr, "lode: like: give either a document or --text\n");
+      std::fprintf(stderr, "lode: nearest: give either a document or --text\n");
       return int{kExitUsage};
     }
     auto vo = to_vector_options(a->vectors);
@@ -55,7 +55,7 @@ Runner add_like_command(CLI::App& app, const std::string& index_flag) {
     o.query_terms = a->query_terms;
     o.candidates = std::max(a->candidates, a->top);
     o.shared_terms = a->shared;
-    auto reader = open_reader(index_flag);
+    auto reader = open_reader(setup);
     if (!reader) return int{kExitError};
     nlohmann::json source;
     Result<SimilarResults> r = Status::NotFound("");
@@ -69,7 +69,7 @@ Runner add_like_command(CLI::App& app, const std::string& index_flag) {
       r = similar_to_text(*reader, a->text, o);
     }
     if (!r) return fail(r.status());
-    if (a->json) std::cout << like_json(source, *r, o).dump(2) << "\n";
+    if (a->json) std::cout << nearest_json(source, *r, o).dump(2) << "\n";
     else print(*r);
     return int{kExitOk};
   };
