@@ -6,6 +6,8 @@ Lease::~Lease() {
   if (pool_ && set_) pool_->release(std::move(set_));
 }
 
+const std::string& Lease::index_name() const { return pool_->name(); }
+
 Result<std::unique_ptr<ReaderSet>> ReaderPool::open_set() const {
   auto set = std::make_unique<ReaderSet>();
   auto reader = IndexReader::open(path_);

@@ -33,6 +33,7 @@ class Lease {
   ~Lease();
   ReaderSet* operator->() { return set_.get(); }
   ReaderSet& operator*() { return *set_; }
+  const std::string& index_name() const;
 
  private:
   ReaderPool* pool_;
