@@ -38,9 +38,9 @@
 // bytes, milliseconds. docs/api.md gives the format.
 //
 // The server never writes an index: it opens IndexReaders only, one per worker
-// thread at most (checked out per request), and every request runs in one
-// read transaction, so a commit by `lode index` in another process shows in
-// the next request without a restart. Static files come from memory; no
+// thread at most (checked out per request) plus one for health, and every
+// response comes from one read snapshot, so a commit by `lode index` in
+// another process shows in the next request without a restart. Static files come from memory; no
 // request ever reads a file from disk.
 //
 // Privacy: the default address is loopback. Any other address exposes the
@@ -115,6 +115,13 @@ struct ServeOptions {
   // Memory for cached search responses (key and body bytes). 32 MiB holds
   // thousands of pages of ten hits with breakdowns; 0 turns caching off.
   std::size_t result_cache_bytes = 32 * 1024 * 1024;
+  // SQLite's memory for all readers of the process together, a soft limit
+  // (sqlite3_soft_heap_limit64, process-wide: set by create(), the last
+  // server created wins): past it SQLite reuses cached pages instead of
+  // growing. Each reader would otherwise cache up to 32 MiB, so memory grew
+  // with --threads (205 MB of heap at 8 workers in bench/serve_load.sh).
+  // 0 leaves SQLite's own setting.
+  std::size_t sqlite_heap_bytes = 64 * 1024 * 1024;
   // Where the access log goes: "-" = standard error (the default: a service
   // manager's journal keeps it), "" = no log, else a file appended to.
   std::string access_log = "-";

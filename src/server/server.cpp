@@ -1,5 +1,6 @@
 #include "lode/server.h"
 
+#include <sqlite3.h>
 #include <sys/socket.h>
 
 #include <algorithm>
@@ -245,6 +246,7 @@ Result<std::unique_ptr<HttpServer>> HttpServer::create(std::vector<ServedIndex> 
     impl->ctx.reserved.push_back(std::make_unique<server::ReaderPool>(ix.name, ix.path, 1));
   }
   impl->ctx.cache = std::make_unique<server::ResultCache>(options.result_cache_bytes);
+  if (options.sqlite_heap_bytes > 0) sqlite3_soft_heap_limit64(static_cast<sqlite3_int64>(options.sqlite_heap_bytes));
   auto log = server::AccessLog::open(options.access_log);
   if (!log) return log.status();
   impl->log = std::move(log.value());

@@ -1,6 +1,8 @@
 // The serving options of a real server on loopback: names it is reached by,
 // the token's override of the Host check, the head deadline, health under
 // saturation, the result cache across a commit, and the access log.
+#include <sqlite3.h>
+
 #include <atomic>
 #include <regex>
 #include <sstream>
@@ -147,6 +149,18 @@ TEST_CASE("Serve: the result cache stays within its bytes") {
   CHECK(cache["entries"].get<int>() > 0);
   CHECK(cache["entries"].get<int>() < 120);
   CHECK(cache["misses"] == 120);
+}
+
+TEST_CASE("Serve: SQLite's heap for the readers is capped as the option says") {
+  Fixture f;
+  ServeOptions o;
+  o.sqlite_heap_bytes = 48 * 1024 * 1024;
+  auto server = HttpServer::create({{"main", f.index}}, o);
+  REQUIRE(server.ok());
+  CHECK(sqlite3_soft_heap_limit64(-1) == 48 * 1024 * 1024);  // -1 reads the limit without changing it
+  o.sqlite_heap_bytes = 64 * 1024 * 1024;
+  REQUIRE(HttpServer::create({{"main", f.index}}, o).ok());
+  CHECK(sqlite3_soft_heap_limit64(-1) == 64 * 1024 * 1024);
 }
 
 TEST_CASE("Serve: the access log has one line per request, without the query text, and can be off") {
