@@ -21,6 +21,9 @@ struct ServeArgs {
   std::string token_file;
   std::size_t max_body_kb = 16;
   std::size_t time_budget_ms = 10000;
+  std::size_t head_deadline_ms = 10000;
+  std::size_t result_cache_mb = 32;
+  bool no_access_log = false;
 };
 
 // "NAME=FILE" or "FILE" (named by its file stem, made URL-safe).
@@ -60,6 +63,9 @@ int run_serve(ServeArgs& a, const Setup& setup) {
   a.options.token = *token;
   a.options.limits.max_body_bytes = a.max_body_kb * 1024;
   a.options.limits.time_budget = std::chrono::milliseconds(a.time_budget_ms);
+  a.options.limits.head_deadline = std::chrono::milliseconds(a.head_deadline_ms);
+  a.options.result_cache_bytes = a.result_cache_mb * 1024 * 1024;
+  if (a.no_access_log) a.options.access_log.clear();
 
   // Signals go to one thread that stops the server; workers never see them.
   sigset_t stop_signals;
@@ -121,6 +127,23 @@ Runner add_serve_command(CLI::App& app, const Setup& setup) {
   app.add_option("--time-budget-ms", a->time_budget_ms,
                  "longest wait for a reader and socket timeout, ms (default 10000)")
       ->check(CLI::Range(100, 600000));
+  app.add_option("--reached-as", a->options.reached_as,
+                 "a host name clients reach this server by (repeatable; loopback names and addresses always "
+                 "work; without a token, requests naming another host are refused)")
+      ->type_name("NAME");
+  app.add_option("--max-connections", l.max_connections, "most open connections (default 512)")
+      ->check(CLI::Range(1, 100000));
+  app.add_option("--max-queued", l.max_queued, "most requests waiting for a worker; beyond, 503 (default 64)")
+      ->check(CLI::Range(0, 100000));
+  app.add_option("--head-deadline-ms", a->head_deadline_ms,
+                 "time for a whole request to arrive, ms (default 10000)")
+      ->check(CLI::Range(100, 600000));
+  app.add_option("--result-cache-mb", a->result_cache_mb, "memory for cached search results, MiB (default 32; 0 = off)")
+      ->check(CLI::Range(0, 65536));
+  app.add_option("--access-log", a->options.access_log,
+                 "access log: - = standard error (default) or a file appended to")
+      ->type_name("FILE");
+  app.add_flag("--no-access-log", a->no_access_log, "write no access log");
   return [a, &setup] { return run_serve(*a, setup); };
 }
 

@@ -51,7 +51,10 @@ nlohmann::json hit_json(const Hit& hit, std::size_t rank, bool with_breakdown) {
 
 nlohmann::json results_json(std::string_view query, const SearchResults& r, const SearchOptions& o) {
   nlohmann::json hits = nlohmann::json::array();
-  for (std::size_t i = 0; i < r.hits.size(); ++i) hits.push_back(hit_json(r.hits[i], o.offset + i + 1, o.breakdown));
+  for (std::size_t i = 0; i < r.hits.size(); ++i) {
+    hits.push_back(hit_json(r.hits[i], o.offset + i + 1, o.breakdown));
+    if (!o.snippets) hits.back().erase("snippet");  // not asked for: absent, not empty
+  }
   return {{"schema", kSearchSchema}, {"query", query},          {"model", model_json(o)},
           {"matched", r.matched},    {"matched_exact", r.matched_exact}, {"offset", o.offset}, {"hits", hits},
           {"warnings", r.warnings}};

@@ -25,20 +25,35 @@ Problem from_status(const Status& s, std::string parameter) {
   }
 }
 
-void send_json(httplib::Response& res, const nlohmann::json& body) {
-  res.set_content(body.dump(-1, ' ', false, nlohmann::json::error_handler_t::replace), "application/json");
+std::string json_text(const nlohmann::json& body) {
+  return body.dump(-1, ' ', false, nlohmann::json::error_handler_t::replace);
 }
 
-void send_problem(const httplib::Request& req, httplib::Response& res, const Problem& p) {
+void send_json(httplib::Response& res, const nlohmann::json& body) { res.set_content(json_text(body), "application/json"); }
+
+nlohmann::json problem_json(const Problem& p, std::string_view instance) {
   nlohmann::json body{{"type", "urn:lode:problem:" + p.slug},
                       {"title", p.title},
                       {"status", p.status},
                       {"detail", p.detail},
-                      {"instance", req.path}};
+                      {"instance", instance}};
   if (!p.parameter.empty()) body["parameter"] = p.parameter;
+  return body;
+}
+
+std::string problem_response(const Problem& p, std::string_view extra_headers) {
+  std::string body = json_text(problem_json(p, ""));
+  std::string out = "HTTP/1.1 " + std::to_string(p.status) + " " + p.title + "\r\n";
+  for (const auto& [name, value] : kCommonHeaders) out += std::string(name) + ": " + value + "\r\n";
+  out += "Content-Type: application/problem+json\r\nConnection: close\r\n";
+  out += extra_headers;
+  out += "Content-Length: " + std::to_string(body.size()) + "\r\n\r\n";
+  return out + body;
+}
+
+void send_problem(const httplib::Request& req, httplib::Response& res, const Problem& p) {
   res.status = p.status;
-  res.set_content(body.dump(-1, ' ', false, nlohmann::json::error_handler_t::replace),
-                  "application/problem+json");
+  res.set_content(json_text(problem_json(p, req.path)), "application/problem+json");
 }
 
 }  // namespace lode::server

@@ -6,9 +6,11 @@ Lease::~Lease() {
   if (pool_ && set_) pool_->release(std::move(set_));
 }
 
+const std::string& Lease::index_name() const { return pool_->name(); }
+
 Result<std::unique_ptr<ReaderSet>> ReaderPool::open_set() const {
   auto set = std::make_unique<ReaderSet>();
-  auto reader = IndexReader::open(path_);
+  auto reader = IndexReader::open(path_, ReaderOptions{cache_});
   if (!reader) return reader.status();
   set->reader = std::move(reader.value());
   auto searcher = Searcher::create(*set->reader);

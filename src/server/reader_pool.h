@@ -33,6 +33,7 @@ class Lease {
   ~Lease();
   ReaderSet* operator->() { return set_.get(); }
   ReaderSet& operator*() { return *set_; }
+  const std::string& index_name() const;
 
  private:
   ReaderPool* pool_;
@@ -57,6 +58,9 @@ class ReaderPool {
 
   std::string name_, path_;
   std::size_t capacity_;
+  // One copy of the norms and decoded postings for all of this index's sets
+  // (lode/index.h): memory per index, not per worker thread.
+  std::shared_ptr<ReaderCache> cache_ = std::make_shared<ReaderCache>();
   std::mutex mu_;
   std::condition_variable freed_;
   std::vector<std::unique_ptr<ReaderSet>> idle_;  // guarded by mu_

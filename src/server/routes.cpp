@@ -62,20 +62,36 @@ Result<MarkedText> marked_field(ReaderSet& set, DocId doc, Field field, std::siz
 #define LODE_SEND_IF_PROBLEM(parsed)                                              \
   if (auto* bad_ = std::get_if<Problem>(&(parsed))) return send_failure(req, res, *bad_)
 
+// The commit generation the reader sees now, in a snapshot of its own.
+Result<std::uint64_t> generation(IndexReader& reader) {
+  auto scope = reader.begin();
+  if (!scope) return scope.status();
+  return reader.stats().generation;
+}
+
 void search(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
   auto parsed = parse_search(p, ctx.options.limits, true);
   LODE_SEND_IF_PROBLEM(parsed);
   auto& r = std::get<SearchRequest>(parsed);
   auto lease = lease_for(ctx, r.index);
   LODE_SEND_IF_PROBLEM(lease);
-  ReaderSet& set = *std::get<Lease>(lease);
-  auto results = set.searcher->search(r.query, r.options);
+  Lease& set = std::get<Lease>(lease);
+  auto before = generation(*set->reader);
+  if (!before) return send_failure(req, res, from_status(before.status()));
+  const std::string key = ResultCache::key(set.index_name(), *before, p, "index");
+  if (auto cached = ctx.cache->get(key)) return res.set_content(*cached, "application/json");
+  auto results = set->searcher->search(r.query, r.options);
   if (!results) return send_failure(req, res, from_status(results.status(), "q"));
-  auto words = hit_words(*set.reader, *set.analyzer, results->hits);
+  auto words = hit_words(*set->reader, *set->analyzer, results->hits);
   if (!words) return send_failure(req, res, from_status(words.status()));
-  nlohmann::json body = results_json(r.query, *results, r.options);
-  body["words"] = *words;
-  send_json(res, body);
+  nlohmann::json json = results_json(r.query, *results, r.options);
+  json["words"] = *words;
+  std::string body = json_text(json);
+  // Searcher::search takes its own snapshot: keep the answer only when no
+  // commit came between, so the entry holds exactly generation `before`.
+  auto after = generation(*set->reader);
+  if (after && *after == *before) ctx.cache->put(key, body);
+  res.set_content(std::move(body), "application/json");
 }
 
 void breakdown(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
@@ -158,40 +174,90 @@ void stats(const Context& ctx, const httplib::Request& req, httplib::Response& r
   send_json(res, stats_json(reader.stats(), reader.settings(), reader.path()));
 }
 
+// Answered by the connection thread with the reserved readers: never waits
+// for a worker. Also shows the result cache and the connection loop.
 void health(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params&) {
   nlohmann::json indexes = nlohmann::json::array();
-  for (auto& pool : ctx.pools) {
-    auto lease = lease_for(ctx, pool->name());
-    LODE_SEND_IF_PROBLEM(lease);
-    IndexReader& reader = *std::get<Lease>(lease)->reader;
+  for (auto& pool : ctx.reserved) {
+    auto lease = pool->acquire(ctx.options.limits.time_budget);
+    if (!lease) return send_failure(req, res, from_status(lease.status()));
+    IndexReader& reader = *lease.value()->reader;
     auto scope = reader.begin();
     if (!scope) return send_failure(req, res, from_status(scope.status()));
-    indexes.push_back({{"name", pool->name()}, {"documents", reader.stats().documents}});
+    auto stats = reader.stats();
+    indexes.push_back({{"name", pool->name()}, {"documents", stats.documents}, {"generation", stats.generation}});
   }
-  send_json(res, {{"schema", "lode.health/1"}, {"serving", true}, {"version", LODE_VERSION}, {"indexes", indexes}});
+  const CacheCounters cache = ctx.cache->counters();
+  nlohmann::json body{{"schema", "lode.health/1"},
+                      {"serving", true},
+                      {"version", LODE_VERSION},
+                      {"indexes", indexes},
+                      {"result_cache",
+                       {{"hits", cache.hits},
+                        {"misses", cache.misses},
+                        {"entries", cache.entries},
+                        {"bytes", cache.bytes},
+                        {"capacity_bytes", cache.capacity_bytes}}}};
+  if (ctx.load) {
+    const LoopLoad l = ctx.load();
+    body["connections"] = {{"open", l.open_connections},          {"queued", l.queued},
+                           {"busy_workers", l.busy_workers},      {"refused_busy", l.refused_busy},
+                           {"refused_connections", l.refused_connections}, {"timed_out", l.timed_out}};
+  }
+  send_json(res, body);
+}
+
+using RouteFn = void (*)(const Context&, const httplib::Request&, httplib::Response&, const Params&);
+
+struct ApiRoute {
+  const char* path;
+  bool post;  // also POST (parameters in a JSON body)
+  std::vector<std::string> params;
+  RouteFn fn;
+};
+
+// Every API route with its parameters: registration and Allow both read it.
+const std::vector<ApiRoute>& api_routes() {
+  static const std::vector<ApiRoute> routes = [] {
+    const std::vector<std::string> model = {"index", "q", "model", "k1", "b", "weighting", "log_base",
+                                            "title_weight", "body_weight", "fields"};
+    auto search_params = model, breakdown_params = model;
+    search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets", "count_all"});
+    breakdown_params.push_back("doc");
+    return std::vector<ApiRoute>{
+        {"/api/v1/search", true, search_params, search},
+        {"/api/v1/breakdown", false, breakdown_params, breakdown},
+        {"/api/v1/document", false, {"index", "doc", "q"}, document},
+        {"/api/v1/documents", false, {"index", "top", "offset"}, listing},
+        {"/api/v1/stats", false, {"index"}, stats},
+        {"/api/v1/health", false, {}, health},
+    };
+  }();
+  return routes;
 }
 
 }  // namespace
 
 void add_api_routes(httplib::Server& http, const Context& ctx) {
-  auto bind = [&ctx](void (*fn)(const Context&, const httplib::Request&, httplib::Response&, const Params&)) {
-    return [&ctx, fn](const httplib::Request& req, httplib::Response& res, const Params& p) { fn(ctx, req, res, p); };
-  };
-  const std::vector<std::string> model = {"index", "q", "model", "k1", "b", "weighting", "log_base",
-                                          "title_weight", "body_weight", "fields"};
-  auto search_params = model, breakdown_params = model;
-  search_params.insert(search_params.end(), {"top", "offset", "breakdown", "snippets", "count_all"});
-  breakdown_params.push_back("doc");
-  http.Get("/api/v1/search", route(search_params, bind(search)));
-  http.Post("/api/v1/search", route(search_params, bind(search)));
-  http.Get("/api/v1/breakdown", route(breakdown_params, bind(breakdown)));
-  http.Get("/api/v1/document", route({"index", "doc", "q"}, bind(document)));
-  http.Get("/api/v1/documents", route({"index", "top", "offset"}, bind(listing)));
-  http.Get("/api/v1/stats", route({"index"}, bind(stats)));
-  http.Get("/api/v1/health", route({}, bind(health)));
+  for (const ApiRoute& a : api_routes()) {
+    RouteFn fn = a.fn;
+    auto handler = route(a.params, [&ctx, fn](const httplib::Request& req, httplib::Response& res, const Params& p) {
+      fn(ctx, req, res, p);
+    });
+    http.Get(a.path, handler);
+    if (a.post) http.Post(a.path, handler);
+  }
   http.Get("/api/v1/openapi.yaml", [](const httplib::Request&, httplib::Response& res) {
     if (const EmbeddedFile* f = find_embedded("openapi.yaml")) send_embedded(res, *f);
   });
+}
+
+std::string allowed_methods(std::string_view path) {
+  for (const ApiRoute& a : api_routes())
+    if (path == a.path) return a.post ? "GET, HEAD, POST" : "GET, HEAD";
+  if (path == "/" || path == "/api/v1/openapi.yaml") return "GET, HEAD";
+  if (path.size() > 1 && path != "/openapi.yaml" && find_embedded(path.substr(1))) return "GET, HEAD";
+  return "";
 }
 
 }  // namespace lode::server

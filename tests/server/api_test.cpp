@@ -18,12 +18,6 @@ nlohmann::json cli_search(const std::string& index, const std::string& args) {
   return nlohmann::json::parse(out);
 }
 
-struct Fixture {
-  TempDir dir;
-  std::string index = dir.str("sample.sqlite");
-  Fixture() { index_sample(index); }
-};
-
 }  // namespace
 
 TEST_CASE("API: search equals the CLI's --json output, field for field") {
@@ -356,30 +350,11 @@ TEST_CASE("API: several indexes are served by name") {
 
 TEST_CASE("CLI: lode serve prints its address, answers, and stops on SIGTERM") {
   Fixture f;
-  std::string out = f.dir.str("serve.out"), err = f.dir.str("serve.err");
-  pid_t pid = fork();
-  REQUIRE(pid >= 0);
-  if (pid == 0) {
-    std::string cmd = "exec " + kLode + " --index " + f.index + " serve --port 0 >" + out + " 2>" + err;
-    execl("/bin/sh", "sh", "-c", cmd.c_str(), static_cast<char*>(nullptr));
-    _exit(127);
-  }
-  std::string url;
-  for (int i = 0; i < 600 && url.empty(); ++i) {  // hang guard: up to a minute to start
-    std::string text = read_text(out);
-    if (text.find('\n') != std::string::npos) url = text.substr(0, text.find('\n'));
-    else std::this_thread::sleep_for(std::chrono::milliseconds(100));
-  }
-  REQUIRE_MESSAGE(url.rfind("http://127.0.0.1:", 0) == 0, read_text(err));
-  int port = std::stoi(url.substr(17));
-  httplib::Client c("127.0.0.1", port);
+  ServeProcess serve("--index " + f.index + " serve --port 0", f.dir.str("serve.out"), f.dir.str("serve.err"));
+  httplib::Client c("127.0.0.1", serve.port());
   auto r = c.Get("/api/v1/health");
   REQUIRE(r);
   CHECK(r->status == 200);
-  CHECK(read_text(err).find("serving 'sample'") != std::string::npos);
-  kill(pid, SIGTERM);
-  int status = 0;
-  waitpid(pid, &status, 0);
-  CHECK(WIFEXITED(status));
-  CHECK(WEXITSTATUS(status) == 0);
+  CHECK(serve.err_text().find("serving 'sample'") != std::string::npos);
+  CHECK(serve.stop() == 0);
 }

@@ -4,6 +4,14 @@
 
 #include <httplib.h>
 
+#include <arpa/inet.h>
+#include <netinet/in.h>
+#include <poll.h>
+#include <sys/socket.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <chrono>
 #include <nlohmann/json.hpp>
 #include <thread>
 
@@ -22,12 +30,139 @@ inline void index_sample(const std::string& index) {
   REQUIRE_MESSAGE(rc == 0, out);
 }
 
+// A plain TCP connection to 127.0.0.1, for what an HTTP client will not do:
+// send a request slowly, stay idle, or forge headers byte by byte.
+class RawConnection {
+ public:
+  explicit RawConnection(int port) {
+    fd_ = ::socket(AF_INET, SOCK_STREAM, 0);
+    REQUIRE(fd_ >= 0);
+    sockaddr_in a{};
+    a.sin_family = AF_INET;
+    a.sin_port = htons(static_cast<std::uint16_t>(port));
+    a.sin_addr.s_addr = htonl(INADDR_LOOPBACK);
+    REQUIRE(::connect(fd_, reinterpret_cast<sockaddr*>(&a), sizeof a) == 0);
+  }
+  ~RawConnection() { ::close(fd_); }
+  RawConnection(const RawConnection&) = delete;
+  RawConnection& operator=(const RawConnection&) = delete;
+
+  // False once the server has closed the connection.
+  bool send(const std::string& bytes) {
+    return ::send(fd_, bytes.data(), bytes.size(), MSG_NOSIGNAL) == static_cast<ssize_t>(bytes.size());
+  }
+  // Everything the server sends until it closes the connection or `limit`
+  // passes (a hang guard); `closed` says which.
+  std::string read_until_closed(std::chrono::milliseconds limit, bool* closed = nullptr) {
+    std::string got;
+    auto end = std::chrono::steady_clock::now() + limit;
+    if (closed) *closed = false;
+    for (;;) {
+      auto left = std::chrono::duration_cast<std::chrono::milliseconds>(end - std::chrono::steady_clock::now());
+      if (left.count() <= 0) return got;
+      pollfd p{fd_, POLLIN, 0};
+      if (::poll(&p, 1, static_cast<int>(left.count())) <= 0) return got;
+      char buf[65536];
+      ssize_t n = ::recv(fd_, buf, sizeof buf, 0);
+      if (n <= 0) {
+        if (closed) *closed = true;
+        return got;
+      }
+      got.append(buf, static_cast<std::size_t>(n));
+    }
+  }
+  // One response (head and Content-Length body), or what came before
+  // `limit` passed (a hang guard).
+  std::string read_response(std::chrono::milliseconds limit) {
+    std::string got;
+    auto end = std::chrono::steady_clock::now() + limit;
+    for (;;) {
+      std::size_t head = got.find("\r\n\r\n");
+      if (head != std::string::npos) {
+        std::size_t at = got.find("Content-Length: ");
+        std::size_t body = at < head ? std::stoul(got.substr(at + 16)) : 0;
+        if (got.size() >= head + 4 + body) return got;
+      }
+      auto left = std::chrono::duration_cast<std::chrono::milliseconds>(end - std::chrono::steady_clock::now());
+      pollfd p{fd_, POLLIN, 0};
+      if (left.count() <= 0 || ::poll(&p, 1, static_cast<int>(left.count())) <= 0) return got;
+      char buf[65536];
+      ssize_t n = ::recv(fd_, buf, sizeof buf, 0);
+      if (n <= 0) return got;
+      got.append(buf, static_cast<std::size_t>(n));
+    }
+  }
+
+ private:
+  int fd_ = -1;
+};
+
+// `lode serve ARGS` (the real binary) in the background, its URL read from
+// its stdout; SIGTERM on stop() or destruction.
+class ServeProcess {
+ public:
+  ServeProcess(const std::string& args, const std::string& out, const std::string& err) : err_(err) {
+    pid_ = fork();
+    REQUIRE(pid_ >= 0);
+    if (pid_ == 0) {
+      std::string cmd = "exec " + kLode + " " + args + " >" + out + " 2>" + err;
+      execl("/bin/sh", "sh", "-c", cmd.c_str(), static_cast<char*>(nullptr));
+      _exit(127);
+    }
+    for (int i = 0; i < 600 && url_.empty(); ++i) {  // hang guard: up to a minute to start
+      std::string text = read_text(out);
+      if (text.find('\n') != std::string::npos) url_ = text.substr(0, text.find('\n'));
+      else std::this_thread::sleep_for(std::chrono::milliseconds(100));
+    }
+    if (url_.rfind("http://127.0.0.1:", 0) != 0) stop();
+    REQUIRE_MESSAGE(url_.rfind("http://127.0.0.1:", 0) == 0, read_text(err));
+  }
+  ~ServeProcess() { stop(); }
+  const std::string& url() const { return url_; }
+  int port() const { return std::stoi(url_.substr(17)); }
+  std::string err_text() const { return read_text(err_); }
+  // Sends SIGTERM and returns the exit status (-1 if killed by a signal).
+  int stop() {
+    if (pid_ <= 0) return status_;
+    kill(pid_, SIGTERM);
+    int status = 0;
+    waitpid(pid_, &status, 0);
+    pid_ = -1;
+    status_ = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    return status_;
+  }
+
+ private:
+  pid_t pid_ = -1;
+  int status_ = -1;
+  std::string url_, err_;
+};
+
+// Opens `n` connections that send a request head one line and then wait
+// (`slow`), and `n` that send nothing (`idle`).
+inline void open_stalled(int port, int n, std::vector<std::unique_ptr<RawConnection>>& slow,
+                         std::vector<std::unique_ptr<RawConnection>>& idle) {
+  for (int i = 0; i < n; ++i) {
+    slow.push_back(std::make_unique<RawConnection>(port));
+    REQUIRE(slow.back()->send("GET /api/v1/search?q=storm HTTP/1.1\r\nHost: 127.0.0.1\r\n"));
+    idle.push_back(std::make_unique<RawConnection>(port));
+  }
+}
+
+// A temporary folder holding the sample corpus's index.
+struct Fixture {
+  TempDir dir;
+  std::string index = dir.str("sample.sqlite");
+  Fixture() { index_sample(index); }
+};
+
 // Serves `indexes` until destroyed.
 class LiveServer {
  public:
   LiveServer(std::vector<ServedIndex> indexes, ServeOptions options = {}) {
     options.address = "127.0.0.1";
     options.port = 0;
+    if (options.access_log == "-") options.access_log.clear();  // a test that reads the log names a file
     auto s = HttpServer::create(std::move(indexes), options);
     REQUIRE_MESSAGE(s.ok(), s.status().to_string());
     server_ = std::move(s.value());
@@ -79,6 +214,19 @@ inline nlohmann::json expect_problem(const httplib::Result& r, int status, const
   CHECK(j["type"] == "urn:lode:problem:" + slug);
   CHECK(j["title"].is_string());
   CHECK(!j["detail"].get<std::string>().empty());
+  return j;
+}
+
+// The same for a raw HTTP response as read from a socket.
+inline nlohmann::json expect_problem_text(const std::string& raw, int status, const std::string& slug) {
+  CHECK_MESSAGE(raw.rfind("HTTP/1.1 " + std::to_string(status), 0) == 0, raw);
+  CHECK(raw.find("Content-Type: application/problem+json") != std::string::npos);
+  std::size_t head = raw.find("\r\n\r\n");
+  REQUIRE(head != std::string::npos);
+  auto j = nlohmann::json::parse(raw.substr(head + 4), nullptr, false);
+  REQUIRE_MESSAGE(!j.is_discarded(), raw);
+  CHECK(j["status"] == status);
+  CHECK(j["type"] == "urn:lode:problem:" + slug);
   return j;
 }
 
