@@ -70,8 +70,15 @@ int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, con
   }
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
   bool tty = stdout_styled();
-  std::printf("%s%llu matching documents (%s)\n", results->matched_exact ? "" : "at least ",
-              static_cast<unsigned long long>(results->matched), describe(o).c_str());
+  // A pruned count is the documents scored before the top ones were certain:
+  // say so, since it grows with --top and --offset.
+  if (results->matched_exact)
+    std::printf("%llu matching documents (%s)\n", static_cast<unsigned long long>(results->matched),
+                describe(o).c_str());
+  else
+    std::printf("at least %llu matching documents (%s; counting stops once the top %zu are certain, so the "
+                "number grows with --top; --count-all counts every one)\n",
+                static_cast<unsigned long long>(results->matched), describe(o).c_str(), o.offset + o.top);
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
     const Hit& h = results->hits[i];
     std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());

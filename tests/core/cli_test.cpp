@@ -43,6 +43,18 @@ TEST_CASE("CLI: index the sample corpus, search, explain, batch, stats") {
   auto res2 = nlohmann::json::parse(run(env + kLode + " search --json --top 5 'storm damage'", &rc));
   CHECK(res2["hits"] == res["hits"]);
 
+  // A pruned count says what it is; --count-all gives the exact number.
+  auto pruned = nlohmann::json::parse(run(kLode + idx + "search --json --top 1 --k1 0 'storm damage'", &rc));
+  REQUIRE(pruned["matched_exact"] == false);
+  std::string counted = run(kLode + idx + "search --top 1 --k1 0 'storm damage'", &rc);
+  CHECK(counted.find("at least " + std::to_string(pruned["matched"].get<int>()) + " matching documents") == 0);
+  CHECK(counted.find("counting stops once the top 1 are certain") != std::string::npos);
+  auto exact = nlohmann::json::parse(run(kLode + idx + "search --json --count-all --top 1 --k1 0 'storm damage'", &rc));
+  CHECK(exact["matched_exact"] == true);
+  CHECK(exact["matched"].get<int>() >= pruned["matched"].get<int>());
+  counted = run(kLode + idx + "search --count-all --top 1 --k1 0 'storm damage'", &rc);
+  CHECK(counted.find(std::to_string(exact["matched"].get<int>()) + " matching documents") == 0);
+
   // Text output with the breakdown table.
   std::string text = run(kLode + idx + "search --why --top 2 'storm damage'", &rc);
   CHECK(rc == 0);
