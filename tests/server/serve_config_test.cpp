@@ -13,37 +13,6 @@ using namespace lode::test;
 
 namespace {
 
-// A `lode serve` process started with `env`; stopped with SIGTERM on destruction.
-class ServeProcess {
- public:
-  ServeProcess(const TempDir& dir, const std::string& env) : out_(dir.str("serve.out")), err_(dir.str("serve.err")) {
-    fs::remove(out_);
-    pid_ = fork();
-    REQUIRE(pid_ >= 0);
-    if (pid_ == 0) {
-      std::string cmd = env + " exec " + kLode + " serve >" + out_ + " 2>" + err_;
-      execl("/bin/sh", "sh", "-c", cmd.c_str(), static_cast<char*>(nullptr));
-      _exit(127);
-    }
-    for (int i = 0; i < 600 && url_.empty(); ++i) {  // hang guard: up to a minute to start
-      std::string text = read_text(out_);
-      if (text.find('\n') != std::string::npos) url_ = text.substr(0, text.find('\n'));
-      else std::this_thread::sleep_for(std::chrono::milliseconds(100));
-    }
-    REQUIRE_MESSAGE(url_.rfind("http://127.0.0.1:", 0) == 0, read_text(err_));
-  }
-  ~ServeProcess() {
-    kill(pid_, SIGTERM);
-    int status = 0;
-    waitpid(pid_, &status, 0);
-  }
-  int port() const { return std::stoi(url_.substr(17)); }
-
- private:
-  std::string out_, err_, url_;
-  pid_t pid_ = -1;
-};
-
 int health(int port, const std::string& token) {
   httplib::Client c("127.0.0.1", port);
   c.set_read_timeout(60, 0);  // a hang guard
@@ -66,13 +35,13 @@ TEST_CASE("CLI: lode serve takes index and address and port and token file from 
   const std::string env = "unset LODE_INDEX LODE_SERVE_TOKEN; XDG_CONFIG_HOME=" + dir.str("config") +
                           " XDG_DATA_HOME=" + dir.str("data");
   {
-    ServeProcess serve(dir, env);
+    ServeProcess serve("serve", dir.str("serve.out"), dir.str("serve.err"), env);
     CHECK(serve.port() != 7340);  // port 0 from the file: any free port, not the default
     CHECK(health(serve.port(), "") == 401);
     CHECK(health(serve.port(), "tok-from-file") == 200);
   }
   {
-    ServeProcess serve(dir, env + " LODE_SERVE_TOKEN=tok-from-env");
+    ServeProcess serve("serve", dir.str("serve.out"), dir.str("serve.err"), env + " LODE_SERVE_TOKEN=tok-from-env");
     CHECK(health(serve.port(), "tok-from-file") == 401);
     CHECK(health(serve.port(), "tok-from-env") == 200);
   }

@@ -97,15 +97,18 @@ class RawConnection {
   int fd_ = -1;
 };
 
-// `lode serve ARGS` (the real binary) in the background, its URL read from
+// `lode ARGS` (the real binary, e.g. "serve ...") in the background, its URL read from
 // its stdout; SIGTERM on stop() or destruction.
 class ServeProcess {
  public:
-  ServeProcess(const std::string& args, const std::string& out, const std::string& err) : err_(err) {
+  // `env`: NAME=VALUE words put before the command.
+  ServeProcess(const std::string& args, const std::string& out, const std::string& err, const std::string& env = "")
+      : err_(err) {
+    fs::remove(out);  // a URL left by an earlier process must not be read as this one's
     pid_ = fork();
     REQUIRE(pid_ >= 0);
     if (pid_ == 0) {
-      std::string cmd = "exec " + kLode + " " + args + " >" + out + " 2>" + err;
+      std::string cmd = env + " exec " + kLode + " " + args + " >" + out + " 2>" + err;
       execl("/bin/sh", "sh", "-c", cmd.c_str(), static_cast<char*>(nullptr));
       _exit(127);
     }
