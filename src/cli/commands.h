@@ -20,5 +20,8 @@ Runner add_keyterms_command(CLI::App& app, const std::string& index_flag);
 Runner add_twins_command(CLI::App& app, const std::string& index_flag);
 Runner add_themes_command(CLI::App& app, const std::string& index_flag);
 Runner add_matrix_command(CLI::App& app, const std::string& index_flag);
+Runner add_sift_command(CLI::App& app, const std::string& index_flag);
+Runner add_whynot_command(CLI::App& app, const std::string& index_flag);
+Runner add_moved_command(CLI::App& app, const std::string& index_flag);
 
 }  // namespace lode::cli
