@@ -3,43 +3,11 @@
 #include "lode/present.h"
 #include "server/params.h"
 #include "server/problem.h"
+#include "server/route_kit.h"
 #include "server/static_files.h"
 
 namespace lode::server {
 namespace {
-
-// The route body, given checked parameters.
-using Body = std::function<void(const httplib::Request&, httplib::Response&, const Params&)>;
-
-// Wraps a route: reads parameters, refuses unknown ones, then runs `body`.
-httplib::Server::Handler route(std::vector<std::string> allowed, Body body) {
-  return [allowed = std::move(allowed), body = std::move(body)](const httplib::Request& req, httplib::Response& res) {
-    auto params = request_params(req);
-    if (auto* bad = std::get_if<Problem>(&params)) return send_problem(req, res, *bad);
-    if (auto bad = check_known(std::get<Params>(params), allowed)) return send_problem(req, res, *bad);
-    body(req, res, std::get<Params>(params));
-  };
-}
-
-// A reader set of the index named `name` ("" = the first).
-Parsed<Lease> lease_for(const Context& ctx, const std::string& name) {
-  for (auto& pool : ctx.pools) {
-    if (!name.empty() && pool->name() != name) continue;
-    auto lease = pool->acquire(ctx.options.limits.time_budget);
-    if (!lease) return from_status(lease.status());
-    return std::move(lease.value());
-  }
-  std::string names;
-  for (auto& pool : ctx.pools) names += (names.empty() ? "" : ", ") + pool->name();
-  return Problem{404, "unknown-index", "No such index", "no index named '" + name + "'; this server has " + names,
-                 "index"};
-}
-
-// Sends a problem for a failed lease or search; Busy gets Retry-After.
-void send_failure(const httplib::Request& req, httplib::Response& res, const Problem& p) {
-  if (p.status == 503) res.set_header("Retry-After", "1");
-  send_problem(req, res, p);
-}
 
 // Stored text of one field, cut to `max_bytes` at a code point boundary,
 // with the words of `terms` marked.
@@ -59,9 +27,6 @@ Result<MarkedText> marked_field(ReaderSet& set, DocId doc, Field field, std::siz
   return m;
 }
 
-#define LODE_SEND_IF_PROBLEM(parsed)                                              \
-  if (auto* bad_ = std::get_if<Problem>(&(parsed))) return send_failure(req, res, *bad_)
-
 void search(const Context& ctx, const httplib::Request& req, httplib::Response& res, const Params& p) {
   auto parsed = parse_search(p, ctx.options.limits, true);
   LODE_SEND_IF_PROBLEM(parsed);
@@ -77,19 +42,12 @@ void explain(const Context& ctx, const httplib::Request& req, httplib::Response&
   auto parsed = parse_search(p, ctx.options.limits, false);
   LODE_SEND_IF_PROBLEM(parsed);
   auto& r = std::get<SearchRequest>(parsed);
-  r.doc = p.count("doc") ? p.at("doc") : "";
-  if (r.doc.empty()) return send_problem(req, res, bad_parameter("doc", "doc (a document id) is required"));
   auto lease = lease_for(ctx, r.index);
   LODE_SEND_IF_PROBLEM(lease);
   ReaderSet& set = *std::get<Lease>(lease);
-  Result<DocId> id = Status::NotFound("");
-  {
-    auto scope = set.reader->begin();
-    if (!scope) return send_failure(req, res, from_status(scope.status()));
-    id = set.reader->find_external(r.doc);
-  }
-  if (!id) return send_failure(req, res, from_status(id.status(), "doc"));
-  auto hit = set.searcher->explain(r.query, *id, r.options);
+  auto id = named_doc(*set.reader, p);
+  LODE_SEND_IF_PROBLEM(id);
+  auto hit = set.searcher->explain(r.query, std::get<DocId>(id), r.options);
   if (!hit) return send_failure(req, res, from_status(hit.status(), "q"));
   send_json(res, explain_json(r.query, *hit, r.options));
 }
@@ -184,6 +142,8 @@ void add_api_routes(httplib::Server& http, const Context& ctx) {
   http.Get("/api/v1/documents", route({"index", "top", "offset"}, bind(listing)));
   http.Get("/api/v1/stats", route({"index"}, bind(stats)));
   http.Get("/api/v1/health", route({}, bind(health)));
+  add_inspect_routes(http, ctx);
+  add_sift_routes(http, ctx);
   http.Get("/api/v1/openapi.yaml", [](const httplib::Request&, httplib::Response& res) {
     if (const EmbeddedFile* f = find_embedded("openapi.yaml")) send_embedded(res, *f);
   });
