@@ -7,12 +7,13 @@
 // qrels.txt) it builds a scratch index with default settings, then for every
 // query with a relevant judgment: (1) runs a sift started from the query
 // text, judging each proposed document from the qrels, until every relevant
-// document is found and the knee rule has said stop; (2) reads the plain
+// document is found, asking the knee rule after each batch; (2) reads the plain
 // BM25 ranking (defaults) in order, then the unretrieved rest in index order.
 // It prints one Markdown row per collection: mean documents judged to reach
 // 80 / 95 / 100 % recall for each, WSS@95 (Cohen et al. 2006: the share of
 // the collection left unread at 95 % recall, minus 0.05, the saving of
-// random sampling), and how often and where the knee rule stopped.
+// random sampling), and how often the knee rule said stop before full recall
+// and before 95 % recall, with the mean documents and recall where it did.
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -47,6 +48,22 @@ std::string plain(std::string q) {
   return q;
 }
 
+void print_header() {
+  std::printf("| collection | docs | queries | sift: judged to 80 / 95 / 100 %% | BM25 order: read to 80 / 95 / 100 %% "
+              "| WSS@95 sift | WSS@95 BM25 | knee said stop before 100 %% | before 95 %% | mean docs / recall at that stop |\n");
+  std::printf("|---|---:|---:|---|---|---:|---:|---:|---:|---|\n");
+  std::fflush(stdout);
+}
+
+void print_row(const Row& r) {
+  std::printf("| %s | %zu | %zu | %.1f / %.1f / %.1f | %.1f / %.1f / %.1f | %.3f | %.3f | %zu | %zu (%.1f %%) | %.0f / %.3f |\n",
+              r.name.c_str(), r.docs, r.queries, r.cal[0], r.cal[1], r.cal[2], r.bm25[0], r.bm25[1], r.bm25[2],
+              r.wss_cal, r.wss_bm25, r.stopped, r.stopped_early,
+              100.0 * static_cast<double>(r.stopped_early) / static_cast<double>(std::max<std::size_t>(r.queries, 1)),
+              r.stop_docs, r.stop_recall);
+  std::fflush(stdout);
+}
+
 int fail(const Status& s) {
   std::fprintf(stderr, "sift_simulate: %s\n", s.to_string().c_str());
   return 1;
@@ -68,8 +85,8 @@ int main(int argc, char** argv) {
     else if (a == "--json" && i + 1 < argc) json_out = argv[++i];
     else names.push_back(a);
   }
+  print_header();
   nlohmann::json per_query = nlohmann::json::object();
-  std::vector<Row> rows;
   fs::path scratch = fs::temp_directory_path() / ("lode-sift-sim-" + std::to_string(::getpid()));
   fs::create_directories(scratch);
   for (const std::string& name : names) {
@@ -160,18 +177,8 @@ int main(int argc, char** argv) {
     row.wss_cal /= nq;
     row.wss_bm25 /= nq;
     if (row.stopped) row.stop_docs /= static_cast<double>(row.stopped), row.stop_recall /= static_cast<double>(row.stopped);
-    rows.push_back(row);
-    std::fprintf(stderr, "%s: %zu queries done\n", name.c_str(), row.queries);
+    print_row(row);
   }
-  std::printf("| collection | docs | queries | sift: judged to 80 / 95 / 100 %% | BM25 order: read to 80 / 95 / 100 %% "
-              "| WSS@95 sift | WSS@95 BM25 | knee stopped | stopped before 95 %% | mean docs / recall at stop |\n");
-  std::printf("|---|---:|---:|---|---|---:|---:|---:|---:|---|\n");
-  for (const Row& r : rows)
-    std::printf("| %s | %zu | %zu | %.1f / %.1f / %.1f | %.1f / %.1f / %.1f | %.3f | %.3f | %zu | %zu (%.1f %%) | %.0f / %.3f |\n",
-                r.name.c_str(), r.docs, r.queries, r.cal[0], r.cal[1], r.cal[2], r.bm25[0], r.bm25[1], r.bm25[2],
-                r.wss_cal, r.wss_bm25, r.stopped, r.stopped_early,
-                100.0 * static_cast<double>(r.stopped_early) / static_cast<double>(std::max<std::size_t>(r.queries, 1)),
-                r.stop_docs, r.stop_recall);
   if (!json_out.empty()) std::ofstream(json_out) << per_query.dump(1) << "\n";
   fs::remove_all(scratch);
   return 0;

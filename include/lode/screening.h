@@ -253,11 +253,11 @@ Result<std::string> content_hash(IndexReader& reader, DocId doc);
 
 // A reviewer played by known judgments: the sift starts from `query`, every
 // proposed document is judged from `relevant`, until every relevant document
-// is found and the knee rule has said stop (or nothing is left).
+// is found (or nothing is left). The knee rule is asked after every batch.
 struct SimulationRun {
   std::size_t scope = 0, relevant = 0;
   std::vector<bool> order;           // judgments in review order
-  std::size_t knee_stop = 0;         // documents reviewed when the knee rule first said stop (0: never)
+  std::size_t knee_stop = 0;         // documents reviewed when the knee rule first said stop (0: not before full recall)
   // Documents reviewed to reach recall r (0 if never): r = 0.8, 0.95, 1.
   std::size_t to_recall(double r) const;
 };
