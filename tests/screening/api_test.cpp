@@ -15,7 +15,7 @@ httplib::Result post(httplib::Client& c, const std::string& path, const nlohmann
 
 }  // namespace
 
-TEST_CASE("api: /whynot and /moved answer with the CLI's shapes; bad parameters are problems") {
+TEST_CASE("api: /whynot and /moved answer with the CLI's shapes, bad parameters are problems") {
   TempDir dir;
   std::string index = dir.str("s.sqlite");
   index_sample(index);

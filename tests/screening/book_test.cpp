@@ -86,7 +86,7 @@ TEST_CASE("sift book: a review survives a restart and keeps who judged what, whe
   CHECK(o.book->next(*o.reader, "fog").status().code() == Code::kInvalidArgument);
 }
 
-TEST_CASE("sift book: re-indexing keeps judgments; changed text goes back to the pool; a removed document is kept as gone") {
+TEST_CASE("sift book: re-indexing keeps judgments, changed text goes back to the pool, a removed document is kept as gone") {
   TempDir dir;
   std::string path = dir.str("i.sqlite");
   auto docs = keeper_notes();

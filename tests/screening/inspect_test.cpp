@@ -110,7 +110,7 @@ TEST_CASE("whynot: names the lacking word and the clause that removes a document
   CHECK_FALSE(wr->clauses[0].holds);
 }
 
-TEST_CASE("moved: ranks and scores equal two separate searches; shifts are the changed contributions") {
+TEST_CASE("moved: ranks and scores equal two separate searches, shifts are the changed contributions") {
   TempDir dir;
   std::string path = dir.str("i.sqlite");
   build_index(path, keeper_notes());

@@ -8,7 +8,7 @@
 using namespace lode;
 using namespace lode::test;
 
-TEST_CASE("page: review mode judges with the keyboard; why-not and what-moved render the API's answers") {
+TEST_CASE("page: review mode judges with the keyboard, why-not and what-moved render the API's answers") {
   TempDir dir;
   std::string index = dir.str("sample.sqlite");
   index_sample(index);
