@@ -9,6 +9,8 @@ packages=(
   # libraries
   libsqlite3-dev libcpp-httplib-dev nlohmann-json3-dev libstemmer-dev libicu-dev
   libcli11-dev libzstd-dev libxxhash-dev
+  # screening: logistic regression
+  liblinear-dev
   # document formats: PDF, HTML, zip containers (DOCX/ODT/EPUB), XML, mail, gzip
   libpoppler-cpp-dev libgumbo-dev libzip-dev libpugixml-dev libgmime-3.0-dev zlib1g-dev
   # tests: encrypted PDFs for the hostile-file set

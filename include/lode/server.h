@@ -8,6 +8,10 @@
 //   GET  /api/v1/document    one document's stored text with the query's words marked
 //   GET  /api/v1/stats       collection statistics (lode.stats/1)
 //   GET  /api/v1/health      liveness and the indexes served
+//   GET  /api/v1/whynot      where a document ranks for a query and why not higher
+//   GET  /api/v1/moved       one query under two model settings, side by side
+//   GET  /api/v1/sifts, /api/v1/sift, /api/v1/sift/batch   saved reviews (docs/screening.md)
+//   POST /api/v1/sift/start|next|mark|check   judging; only with allow_judging
 //   GET  /                   the browser page (web/, embedded at build time)
 // Errors are RFC 9457 problem details (application/problem+json); a method a
 // route does not take gets 405 with `Allow`.
@@ -37,11 +41,15 @@
 // (never the query string: it holds the user's words), status, response
 // bytes, milliseconds. docs/api.md gives the format.
 //
-// The server never writes an index: it opens IndexReaders only, one per worker
-// thread at most (checked out per request) plus one for health, and every
-// response comes from one read snapshot, so a commit by `lode index` in
-// another process shows in the next request without a restart. Static files come from memory; no
-// request ever reads a file from disk.
+// The server never writes an index's own tables: it opens IndexReaders only,
+// one per worker thread at most (checked out per request) plus one for
+// health, and every response comes from one read snapshot, so a commit by
+// `lode index` in another process shows in the next request without a
+// restart. The one write path is opt-in: with ServeOptions::allow_judging,
+// the POST /api/v1/sift/* routes record sift judgments and batches in the
+// review tables of the index file (docs/index-format.md), each in one short
+// SQLite transaction. Static files come from memory; no request ever reads a
+// file from disk.
 //
 // Privacy: the default address is loopback. Any other address exposes the
 // archive's text to whoever can reach the port (the CLI warns).
@@ -125,6 +133,9 @@ struct ServeOptions {
   // Where the access log goes: "-" = standard error (the default: a service
   // manager's journal keeps it), "" = no log, else a file appended to.
   std::string access_log = "-";
+  // Let POST /api/v1/sift/* write reviews into the index file. Off: the
+  // server writes nothing and those routes answer 403.
+  bool allow_judging = false;
   ServeLimits limits;
 };
 

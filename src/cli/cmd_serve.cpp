@@ -120,6 +120,8 @@ Runner add_serve_command(CLI::App& app, const Setup& setup) {
                  "require the token in this file on every request (default: $LODE_SERVE_TOKEN if set, else the "
                  "config file's serve.token_file)")
       ->type_name("FILE");
+  app.add_flag("--allow-judging", a->options.allow_judging,
+               "let the page and API record sift judgments in the index file (default: the server writes nothing)");
   app.add_option("--max-page", l.max_page, "most hits per request (default 100)")->check(CLI::Range(1, 10000));
   app.add_option("--max-query-bytes", l.max_query_bytes, "longest query (default 1024)")->check(CLI::Range(1, 16384));
   app.add_option("--max-terms", l.max_query_terms, "most words in a query (default 32)")->check(CLI::Range(1, 1024));

@@ -22,5 +22,8 @@ Runner add_keyterms_command(CLI::App& app, const Setup& setup);
 Runner add_twins_command(CLI::App& app, const Setup& setup);
 Runner add_themes_command(CLI::App& app, const Setup& setup);
 Runner add_matrix_command(CLI::App& app, const Setup& setup);
+Runner add_sift_command(CLI::App& app, const Setup& setup);
+Runner add_whynot_command(CLI::App& app, const Setup& setup);
+Runner add_moved_command(CLI::App& app, const Setup& setup);
 
 }  // namespace lode::cli

@@ -52,6 +52,12 @@ int main(int argc, char** argv) {
   runners.emplace_back(themes, lode::cli::add_themes_command(*themes, setup));
   auto* matrix = app.add_subcommand("matrix", "export the TF-IDF document-term matrix (Matrix Market)");
   runners.emplace_back(matrix, lode::cli::add_matrix_command(*matrix, setup));
+  auto* sift = app.add_subcommand("sift", "find all of it: judge batches, a classifier ranks the rest, a rule says when to stop");
+  runners.emplace_back(sift, lode::cli::add_sift_command(*sift, setup));
+  auto* whynot = app.add_subcommand("whynot", "why a document is not higher (or not at all) in a query's results");
+  runners.emplace_back(whynot, lode::cli::add_whynot_command(*whynot, setup));
+  auto* moved = app.add_subcommand("moved", "one query under two model settings: what entered, left and moved");
+  runners.emplace_back(moved, lode::cli::add_moved_command(*moved, setup));
   try {
     // CLI11 takes the arguments last first.
     std::vector<std::string> args = lode::cli::protect_dash_values(app, argc, argv);

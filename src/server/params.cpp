@@ -156,4 +156,8 @@ Parsed<SearchRequest> parse_search(const Params& p, const ServeLimits& limits, b
   return r;
 }
 
+Parsed<std::size_t> parse_count(const Params& p, const char* name, std::size_t fallback, std::size_t hi) {
+  return count(p, name, fallback, hi);
+}
+
 }  // namespace lode::server

@@ -35,6 +35,9 @@ struct Paging {
 };
 Parsed<Paging> parse_paging(const Params& p, const ServeLimits& limits);
 
+// A whole number parameter in [0, hi] (over_limit above), `fallback` when absent.
+Parsed<std::size_t> parse_count(const Params& p, const char* name, std::size_t fallback, std::size_t hi);
+
 struct SearchRequest {
   std::string index;   // served index name; empty = the first
   std::string query;   // q (required)

@@ -3,43 +3,11 @@
 #include "lode/present.h"
 #include "server/params.h"
 #include "server/problem.h"
+#include "server/route_kit.h"
 #include "server/static_files.h"
 
 namespace lode::server {
 namespace {
-
-// The route body, given checked parameters.
-using Body = std::function<void(const httplib::Request&, httplib::Response&, const Params&)>;
-
-// Wraps a route: reads parameters, refuses unknown ones, then runs `body`.
-httplib::Server::Handler route(std::vector<std::string> allowed, Body body) {
-  return [allowed = std::move(allowed), body = std::move(body)](const httplib::Request& req, httplib::Response& res) {
-    auto params = request_params(req);
-    if (auto* bad = std::get_if<Problem>(&params)) return send_problem(req, res, *bad);
-    if (auto bad = check_known(std::get<Params>(params), allowed)) return send_problem(req, res, *bad);
-    body(req, res, std::get<Params>(params));
-  };
-}
-
-// A reader set of the index named `name` ("" = the first).
-Parsed<Lease> lease_for(const Context& ctx, const std::string& name) {
-  for (auto& pool : ctx.pools) {
-    if (!name.empty() && pool->name() != name) continue;
-    auto lease = pool->acquire(ctx.options.limits.time_budget);
-    if (!lease) return from_status(lease.status());
-    return std::move(lease.value());
-  }
-  std::string names;
-  for (auto& pool : ctx.pools) names += (names.empty() ? "" : ", ") + pool->name();
-  return Problem{404, "unknown-index", "No such index", "no index named '" + name + "'; this server has " + names,
-                 "index"};
-}
-
-// Sends a problem for a failed lease or search; Busy gets Retry-After.
-void send_failure(const httplib::Request& req, httplib::Response& res, const Problem& p) {
-  if (p.status == 503) res.set_header("Retry-After", "1");
-  send_problem(req, res, p);
-}
 
 // Stored text of one field, cut to `max_bytes` at a code point boundary,
 // with the words of `terms` marked.
@@ -58,9 +26,6 @@ Result<MarkedText> marked_field(ReaderSet& set, DocId doc, Field field, std::siz
   m.marks = mark_terms(m.text, *set.analyzer, terms);
   return m;
 }
-
-#define LODE_SEND_IF_PROBLEM(parsed)                                              \
-  if (auto* bad_ = std::get_if<Problem>(&(parsed))) return send_failure(req, res, *bad_)
 
 // The commit generation the reader sees now, in a snapshot of its own.
 Result<std::uint64_t> generation(IndexReader& reader) {
@@ -98,19 +63,12 @@ void breakdown(const Context& ctx, const httplib::Request& req, httplib::Respons
   auto parsed = parse_search(p, ctx.options.limits, false);
   LODE_SEND_IF_PROBLEM(parsed);
   auto& r = std::get<SearchRequest>(parsed);
-  r.doc = p.count("doc") ? p.at("doc") : "";
-  if (r.doc.empty()) return send_problem(req, res, bad_parameter("doc", "doc (a document id) is required"));
   auto lease = lease_for(ctx, r.index);
   LODE_SEND_IF_PROBLEM(lease);
   ReaderSet& set = *std::get<Lease>(lease);
-  Result<DocId> id = Status::NotFound("");
-  {
-    auto scope = set.reader->begin();
-    if (!scope) return send_failure(req, res, from_status(scope.status()));
-    id = set.reader->find_external(r.doc);
-  }
-  if (!id) return send_failure(req, res, from_status(id.status(), "doc"));
-  auto hit = set.searcher->explain(r.query, *id, r.options);
+  auto id = named_doc(*set.reader, p);
+  LODE_SEND_IF_PROBLEM(id);
+  auto hit = set.searcher->explain(r.query, std::get<DocId>(id), r.options);
   if (!hit) return send_failure(req, res, from_status(hit.status(), "q"));
   send_json(res, breakdown_json(r.query, *hit, r.options));
 }
@@ -247,6 +205,8 @@ void add_api_routes(httplib::Server& http, const Context& ctx) {
     http.Get(a.path, handler);
     if (a.post) http.Post(a.path, handler);
   }
+  add_inspect_routes(http, ctx);
+  add_sift_routes(http, ctx);
   http.Get("/api/v1/openapi.yaml", [](const httplib::Request&, httplib::Response& res) {
     if (const EmbeddedFile* f = find_embedded("openapi.yaml")) send_embedded(res, *f);
   });

@@ -32,5 +32,9 @@ std::string allowed_methods(std::string_view path);
 
 // Registers /api/v1/* on `http`. `ctx` must outlive it.
 void add_api_routes(httplib::Server& http, const Context& ctx);
+// /api/v1/whynot and /api/v1/moved (inspect_routes.cpp).
+void add_inspect_routes(httplib::Server& http, const Context& ctx);
+// /api/v1/sift* (sift_routes.cpp); writes only with ServeOptions::allow_judging.
+void add_sift_routes(httplib::Server& http, const Context& ctx);
 
 }  // namespace lode::server
