@@ -67,7 +67,7 @@
   const wnDoc = make("input");
   wnDoc.id = "whynot-doc";
   wnDoc.placeholder = "document id (as the hits show it)";
-  const wnGo = make("button", "", "explain");
+  const wnGo = make("button", "", "find its rank");
   wnGo.type = "submit";
   const wnOut = make("div", "tool-out");
   wnOut.id = "whynot-out";
