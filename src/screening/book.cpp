@@ -88,11 +88,11 @@ Status SiftBook::start(IndexReader& reader, const SiftStart& start) {
   auto scope = screening::sift_scope(reader, start.query);
   if (!scope) return scope.status();
   if (scope->words.empty() && start.seeds.empty())
-    return Status::InvalidArgument("sift: give query words or seed documents to start from");
+    return Status::InvalidArgument("sift: give query words or documents known to be relevant to start from");
   std::vector<std::pair<std::string, std::string>> seeds;  // doc, content hash
   for (const std::string& doc : start.seeds) {
     auto id = reader.find_external(doc);
-    if (!id) return Status::NotFound("seed document '" + doc + "' is not in the index");
+    if (!id) return Status::NotFound("starting document '" + doc + "' is not in the index");
     auto h = content_hash(reader, *id);
     if (!h) return h.status();
     seeds.emplace_back(doc, *h);
