@@ -1,7 +1,7 @@
 // bench_explore — timings of the explore features (not a test; no assertions).
 //
 // Workloads:
-//   like  INDEX [N=200] : similar_to_document for N seeded random live documents
+//   nearest INDEX [N=200] : similar_to_document for N seeded random live documents
 //                          (default options: 30 query terms, 500 candidates);
 //                          prints p50/p90/p99/max latency. Naive baseline in the
 //                          same run: exhaustive cosine against every live document
@@ -48,7 +48,7 @@ int die(const Status& s) {
   return 1;
 }
 
-int bench_like(const std::string& path, std::size_t n) {
+int bench_nearest(const std::string& path, std::size_t n) {
   auto reader = IndexReader::open(path);
   if (!reader) return die(reader.status());
   std::vector<DocId> live;
@@ -80,7 +80,7 @@ int bench_like(const std::string& path, std::size_t n) {
       naive += seconds_since(t) * 1000 / 3;
     }
   }
-  nlohmann::json out{{"bench", "like"}, {"index", path}, {"documents", live.size()},
+  nlohmann::json out{{"bench", "nearest"}, {"index", path}, {"documents", live.size()},
                      {"bytes", std::filesystem::file_size(path)}, {"queries", n},
                      {"p50_ms", percentile(ms, 0.5)}, {"p90_ms", percentile(ms, 0.9)},
                      {"p99_ms", percentile(ms, 0.99)}, {"max_ms", percentile(ms, 1.0)},
@@ -180,7 +180,7 @@ int bench_twins(const std::string& dir, const std::vector<std::size_t>& sizes) {
 
 int main(int argc, char** argv) {
   std::vector<std::string> a(argv + 1, argv + argc);
-  if (a.size() >= 2 && a[0] == "like") return bench_like(a[1], a.size() > 2 ? std::stoul(a[2]) : 200);
+  if (a.size() >= 2 && a[0] == "nearest") return bench_nearest(a[1], a.size() > 2 ? std::stoul(a[2]) : 200);
   if (a.size() == 3 && a[0] == "matrix") return bench_matrix(a[1], a[2]);
   if (a.size() >= 3 && a[0] == "twins") {
     std::vector<std::size_t> sizes;
@@ -188,6 +188,6 @@ int main(int argc, char** argv) {
     return bench_twins(a[1], sizes);
   }
   std::fprintf(stderr,
-               "usage: bench_explore like INDEX [N] | matrix INDEX OUT_PREFIX | twins DIR SIZE...\n");
+               "usage: bench_explore nearest INDEX [N] | matrix INDEX OUT_PREFIX | twins DIR SIZE...\n");
   return 2;
 }
