@@ -4,8 +4,9 @@
 // bits [i*width, (i+1)*width). A block of n values takes ceil(n*width/8)
 // bytes; width 0 stores nothing (every value is 0).
 //
-// The decoder reads 64-bit words where at least 8 bytes remain and falls
-// back to byte loads near the end, so it never reads past the blob.
+// The decoder, specialised per width, reads 64-bit words where at least 8
+// bytes remain and falls back to byte loads near the end, so it never reads
+// past the blob.
 #pragma once
 
 #include <algorithm>
@@ -85,23 +86,7 @@ inline void unpack(const unsigned char* in, std::size_t bytes, std::uint32_t* ou
     std::memset(out, 0, n * sizeof(std::uint32_t));
     return;
   }
-  if (width <= kMaxPackWidth) return detail::kUnpack[width - 1](in, bytes, out, n);
-  const std::uint64_t mask = (std::uint64_t{1} << width) - 1;
-  std::size_t i = 0, bit = 0;
-  // Fast path: a whole 64-bit word is readable at the value's byte; a value
-  // of at most 32 bits starting at bit offset <= 7 lies inside it.
-  for (; i < n && (bit >> 3) + 8 <= bytes; ++i, bit += width) {
-    std::uint64_t w;
-    std::memcpy(&w, in + (bit >> 3), 8);
-    if constexpr (std::endian::native == std::endian::big) w = __builtin_bswap64(w);
-    out[i] = static_cast<std::uint32_t>((w >> (bit & 7)) & mask);
-  }
-  for (; i < n; ++i, bit += width) {
-    std::uint64_t w = 0;
-    const std::size_t at = bit >> 3;
-    for (std::size_t k = 0; k < 8 && at + k < bytes; ++k) w |= static_cast<std::uint64_t>(in[at + k]) << (8 * k);
-    out[i] = static_cast<std::uint32_t>((w >> (bit & 7)) & mask);
-  }
+  detail::kUnpack[width - 1](in, bytes, out, n);
 }
 
 }  // namespace lode::codec
