@@ -447,3 +447,40 @@ TEST_CASE("bit packing round-trips every width and block size, reading nothing p
       CHECK_MESSAGE(back == values, "width " << width << ", n " << n);
     }
 }
+
+TEST_CASE("readers sharing a cache reuse decoded postings and see the next commit, never a stale list") {
+  TempDir dir;
+  const std::string index = dir.str("i.sqlite");
+  build_index(index, {{"One", "beacon lamp"}, {"Two", "beacon fog"}});
+  auto cache = std::make_shared<ReaderCache>();
+  auto a = IndexReader::open(index, ReaderOptions{cache});
+  auto b = IndexReader::open(index, ReaderOptions{cache});
+  REQUIRE(a.ok());
+  REQUIRE(b.ok());
+  auto docs_of = [](IndexReader& r, const char* word) {
+    auto scope = r.begin();
+    REQUIRE(scope.ok());
+    auto t = r.term(Field::kBody, word);
+    REQUIRE(t.ok());
+    REQUIRE(t->has_value());
+    std::vector<DocId> out;
+    for (auto c = r.postings(**t); c->valid(); c->next()) out.push_back(c->doc());
+    auto n = r.norms();
+    REQUIRE(n.ok());
+    for (DocId d : out) CHECK((*n)->live(d));
+    return out;
+  };
+  CHECK(docs_of(**a, "beacon").size() == 2);
+  const auto misses = cache->counts().misses;
+  CHECK(docs_of(**b, "beacon").size() == 2);  // the list decoded for `a` serves `b`
+  CHECK(cache->counts().hits >= 1);
+  CHECK(cache->counts().misses == misses);
+  {
+    auto w = IndexWriter::open(index, std::nullopt);
+    REQUIRE(w.ok());
+    REQUIRE((*w)->put_file(FileRecord{"/v/3", "/v", 1, 1, "h3", "text"}, {doc_input("3", "Three", "beacon tide")}).ok());
+    REQUIRE((*w)->commit().ok());
+  }
+  CHECK(docs_of(**b, "beacon").size() == 3);  // a new generation: the cached list is not used
+  CHECK(docs_of(**a, "beacon").size() == 3);
+}
