@@ -43,7 +43,7 @@ using namespace lode::bench;
 namespace {
 
 struct Args {
-  std::string index, label, json_out, dump_queries;
+  std::string index, label, json_out, dump_queries, queries_from;
   std::vector<std::string> only;  // configurations to run (empty: all)
   std::size_t queries = 200, vocab = 50'000;
   int repeat = 5;
@@ -101,6 +101,22 @@ json measure(const std::vector<BenchQuery>& set, int repeat, double budget_s, Ru
           {"errors", errors}};
 }
 
+// A query set as --dump-queries writes it: kind TAB query, one a line.
+Result<std::vector<BenchQuery>> read_query_set(const std::string& path) {
+  std::ifstream in(path);
+  if (!in) return Status::NotFound(path + ": cannot open the query set");
+  std::vector<BenchQuery> set;
+  std::string line;
+  for (std::size_t n = 1; std::getline(in, line); ++n) {
+    const auto tab = line.find('\t');
+    if (tab == std::string::npos)
+      return Status::InvalidArgument(path + ":" + std::to_string(n) + ": expected kind TAB query");
+    set.push_back(BenchQuery{line.substr(tab + 1), line.substr(0, tab)});
+  }
+  if (set.empty()) return Status::InvalidArgument(path + ": no queries");
+  return set;
+}
+
 int run(const Args& a) {
   auto reader = IndexReader::open(a.index);
   if (!reader) return fail(reader.status());
@@ -114,7 +130,7 @@ int run(const Args& a) {
   qo.count = a.queries;
   qo.seed = a.query_seed;
   qo.vocabulary = a.words_from_index ? nullptr : &vocab;
-  auto set = make_query_set(**reader, **analyzer, qo);
+  auto set = a.queries_from.empty() ? make_query_set(**reader, **analyzer, qo) : read_query_set(a.queries_from);
   if (!set) return fail(set.status());
   if (!a.dump_queries.empty()) {
     std::ofstream out(a.dump_queries);
@@ -224,6 +240,7 @@ int main(int argc, char** argv) {
   app.add_option("--query-seed", a.query_seed, "query set seed (default 7)");
   app.add_flag("--words-from-index", a.words_from_index, "draw words from stored documents, not the synthetic vocabulary");
   app.add_option("--dump-queries", a.dump_queries, "write the query set here (kind TAB query per line)");
+  app.add_option("--queries-from", a.queries_from, "run this query set (as --dump-queries writes it) instead of a generated one");
   app.add_option("--label", a.label, "name for this run in the output");
   app.add_option("--only", a.only, "run only these configurations (e.g. bm25-rank varint-bm25-exhaustive)");
   app.add_option("--json-out", a.json_out, "also write the JSON result here");

@@ -270,6 +270,10 @@ class ReaderCache {
 struct ReaderOptions {
   // Shared with other readers of the same index; null: the reader makes its own.
   std::shared_ptr<ReaderCache> cache;
+  // impact_tiers(): lists of at least this many postings get a tier holding
+  // 1/tier_share of their live postings (readers sharing a cache must agree).
+  std::uint64_t tier_min_postings = 8192;
+  std::uint32_t tier_share = 32;
 };
 
 class IndexReader {
@@ -311,6 +315,12 @@ class IndexReader {
   // A cursor over a list from postings_lists(), reading positions through
   // this reader. Valid within the scope.
   std::unique_ptr<PostingCursor> cursor(std::shared_ptr<const PostingList> list);
+
+  // The impact tiers of `terms` (lode/postings.h), in their order; null for
+  // a list shorter than ReaderOptions::tier_min_postings. Built from the
+  // list and the norms on first use, then cached per commit generation.
+  // Errors: those of postings_lists() and norms().
+  Result<std::vector<std::shared_ptr<const ImpactTier>>> impact_tiers(const std::vector<TermInfo>& terms);
 
   // Live documents holding both terms (BM25F's any-field df needs it for a
   // word in two fields). Computed once per commit generation and cached.

@@ -105,6 +105,17 @@ class PostingList {
   std::string what_;
 };
 
+// The high-impact part of a long list, for the top-k walk (lode/topk.h):
+// its postings of largest tf / length impact, as a list of their own (real
+// tfs and lengths in its bound points, no positions), and points covering
+// every other live posting of the list. The split only speeds the walk up:
+// the rest's points bound the rest for any scoring parameters, so results
+// do not depend on which postings were chosen. Immutable and shareable.
+struct ImpactTier {
+  std::shared_ptr<const PostingList> top;
+  std::vector<BoundPoint> rest_points;
+};
+
 // Walks a PostingList in increasing document order. Dead documents are
 // included; callers check liveness. An I/O or decoding error makes valid()
 // false and status() non-ok.
@@ -139,6 +150,7 @@ class PostingCursor {
   DocId block_last_doc() const { return list_->blocks()[block_].last; }
   std::span<const BoundPoint> block_points() const { return list_->points(list_->blocks()[block_]); }
   const PostingList& list() const { return *list_; }
+  const std::shared_ptr<const PostingList>& shared_list() const { return list_; }
   Status status() const { return status_; }
 
  private:

@@ -18,7 +18,14 @@
 //    jump the walk forward through their own cursors instead of being
 //    tested on every document);
 //  * a candidate's bound is tightened with its real tf and length, one
-//    non-essential term at a time, and it is dropped as soon as it cannot pass θ.
+//    non-essential term at a time, and it is dropped as soon as it cannot pass θ;
+//  * a long list may come with an impact tier (two-tier postings, Manning,
+//    Raghavan & Schütze, "Introduction to Information Retrieval" §7.2.1):
+//    its top postings are read as one more list, and the whole list stands
+//    for the rest, bounded by the rest's points. Once θ passes what the rest
+//    can give, only the top postings propose candidates; the whole list is
+//    still used to look a candidate's tf up. A frequent word whose every
+//    block holds some strong document thus stops costing its whole list.
 // The result is exactly the exhaustive top k (same scores, same order, ties
 // broken by lower doc id): bounds are never below the true contributions,
 // and a bound is only trusted to prune with a relative slack of 1e-9 so that
@@ -62,23 +69,39 @@ class TopKModel {
   virtual double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const = 0;
   // Bound for `doc`, where term i has frequency tf (> 0).
   virtual double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const = 0;
-  // Terms whose contributions are bounded together (BM25F: one word in two
-  // fields saturates once): term i's group, in 0 .. terms-1, and a cap on any
-  // document's total from group g given each member's bound points (lists
-  // indexed like the members, ascending term index). By default every term
-  // is its own group and nothing is capped.
+  // Terms whose contributions saturate together (BM25F: one word in several
+  // fields): term i's group, in 0 .. terms-1. When some group has two or
+  // more terms, the walk bounds every group g's total on a document by
+  // group_bound(g, s), s = the sum over its members found there of
+  // member_raw(i, tf, length), with that member's tf and field length (or
+  // doc_raw with the document's own length); group_bound rises with s and is
+  // 0 at 0, member_raw rises with tf and falls with length. By default every
+  // term is its own group and the raw amount is the bound itself.
   virtual std::size_t group(std::size_t i) const { return i; }
-  virtual double group_cap(std::size_t /*g*/, std::span<const std::size_t> /*members*/,
-                           std::span<const std::span<const BoundPoint>> /*points*/) const {
-    return std::numeric_limits<double>::infinity();
+  virtual double member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const {
+    return block_bound(i, tf, length);
   }
+  virtual double doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const { return doc_bound(i, tf, doc); }
+  virtual double group_bound(std::size_t /*g*/, double raw) const { return raw; }
   // The first document >= `doc` that may pass admit() (required clauses,
   // filters), or kNoDoc when none can. Called with increasing `doc`.
   virtual Result<DocId> next_admissible(DocId doc) { return doc; }
+  // Forgets the documents asked before: the walk goes back to the first
+  // document (its second pass, after the impact tiers' first). Errors end
+  // the walk. By default there is nothing to forget.
+  virtual Status restart() { return Status(); }
   // Whether `doc` may be returned at all (live, filters, required clauses).
   virtual Result<bool> admit(DocId doc) = 0;
   // The exact score of an admitted doc; tfs[i] = term i's tf in it (0 = absent).
   virtual Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) = 0;
+};
+
+// A term's impact tier (lode/postings.h ImpactTier) as the walk reads it: a
+// cursor over its top postings (null: none) and points covering the rest of
+// its list. The term's own cursor still serves the rest and lookups.
+struct TierCursor {
+  PostingCursor* top = nullptr;
+  std::span<const BoundPoint> rest;
 };
 
 struct ScoredDoc {
@@ -112,27 +135,137 @@ struct Better {
 template <class Model>
 class Walk {
  public:
-  Walk(std::span<PostingCursor* const> cursors, Model& model, std::size_t k, bool prune)
-      : cursors_(cursors.begin(), cursors.end()), model_(model), k_(k), prune_(prune), tfs_(cursors.size(), 0),
-        cached_block_(cursors.size(), kNone), block_bound_(cursors.size(), 0) {}
+  Walk(std::span<PostingCursor* const> cursors, std::span<const TierCursor> tiers, Model& model, std::size_t k,
+       bool prune)
+      : model_(model), k_(k), prune_(prune), tfs_(cursors.size(), 0), resolved_(cursors.size(), 0),
+        tb_(cursors.size(), 0) {
+    for (std::size_t i = 0; i < cursors.size(); ++i) {
+      if (!cursors[i] || !cursors[i]->valid()) continue;
+      PostingCursor* top = i < tiers.size() && tiers[i].top && tiers[i].top->valid() ? tiers[i].top : nullptr;
+      // The rest before the top part: equal keys keep that order, so the top
+      // part is always looked at (descending) before the rest.
+      parts_.push_back(Part{cursors[i], i, false, top ? tiers[i].rest : std::span<const BoundPoint>{}, kNone});
+      if (top) {
+        parts_.back().rest = true;
+        parts_.back().partner = parts_.size();
+        parts_.push_back(Part{top, i, false, {}, parts_.size() - 1});
+      }
+    }
+    for (const Part& p : parts_) all_.push_back(p.cursor);
+  }
 
   Result<TopKResult> run() {
-    term_bound_.assign(cursors_.size(), 0);
-    for (std::size_t i = 0; i < cursors_.size(); ++i)
-      if (cursors_[i] && cursors_[i]->valid()) {
-        order_.push_back(i);
-        term_bound_[i] = std::min(model_.term_bound(i), points_bound(i, cursors_[i]->list().list_points()));
-      }
     make_groups();
-    std::stable_sort(order_.begin(), order_.end(),
-                     [&](std::size_t a, std::size_t b) { return term_bound_[a] < term_bound_[b]; });
-    // prefix_[m]: a document found only in order_[0..m], groups capped.
-    clear_groups();
-    for (std::size_t i : order_) {
-      gsum_[group_[i]] += term_bound_[i];
-      prefix_.push_back(capped());
+    bound_.assign(parts_.size(), 0);
+    for (std::size_t p = 0; p < parts_.size(); ++p) {
+      const Part& part = parts_[p];
+      bound_[p] = points_bound(part.term, part.cursor->list().list_points());
+      if (part.rest) bound_[p] = std::min(bound_[p], points_bound(part.term, part.rest_points));
+      if (!grouped_) bound_[p] = std::min(bound_[p], model_.term_bound(part.term));
     }
+    // A tier is only worth its cursor when the rest bounds lower than it.
+    for (std::size_t p = 0; p < parts_.size(); ++p)
+      if (parts_[p].rest && bound_[p] >= bound_[parts_[p].partner]) unsplit(p);
+    key_.assign(parts_.size(), 0);
+    for (std::size_t p = 0; p < parts_.size(); ++p)
+      key_[p] = grouped_ ? model_.group_bound(group_[parts_[p].term], bound_[p]) : bound_[p];
+    cached_block_.assign(parts_.size(), kNone);
+    block_bound_.assign(parts_.size(), 0);
+    if (prune_ && tops_may_decide()) {
+      // First the documents of the top parts alone, the rest only looked up
+      // (on fresh cursors: the walk below starts over): their best k give a
+      // θ near the final one. If no document outside them can reach it, that
+      // is the answer; else the whole walk follows, starting from that θ.
+      std::vector<std::unique_ptr<PostingCursor>> fresh;
+      std::vector<PostingCursor*> given;
+      for (Part& p : parts_) {
+        given.push_back(p.cursor);
+        fresh.push_back(std::make_unique<PostingCursor>(p.cursor->shared_list(), nullptr));
+        p.cursor = fresh.back().get();
+      }
+      std::size_t lookups = 0;
+      order_parts(/*tops_last=*/true, &lookups);
+      lazy_ = lookups;
+      Status first = walk();
+      const double outside = lookups == 0 ? 0.0 : prefix_[lookups - 1];  // a document in no top part
+      for (std::size_t p = 0; p < parts_.size(); ++p) {
+        if (first.ok() && !parts_[p].cursor->status().ok()) first = parts_[p].cursor->status();
+        parts_[p].cursor = given[p];
+      }
+      LODE_RETURN_IF_ERROR(first);
+      LODE_RETURN_IF_ERROR(model_.restart());
+      if (full_ && cannot_enter(outside)) {
+        out_.matched_exact = false;
+        return finish();
+      }
+      for (const ScoredDoc& d : heap_.container()) seeded_.push_back(d.doc);
+      std::sort(seeded_.begin(), seeded_.end());
+      first_matched_ = out_.matched;
+      out_.matched = 0;
+      std::fill(cached_block_.begin(), cached_block_.end(), kNone);
+      run_lazy_ = kNone;
+    }
+    order_parts(/*tops_last=*/false, nullptr);
+    lazy_ = 0;
+    while (full_ && lazy_ < order_.size() && cannot_enter(prefix_[lazy_])) ++lazy_;
+    LODE_RETURN_IF_ERROR(walk());
+    if (first_matched_ > 0) out_.matched_exact = false;
+    out_.matched = std::max(out_.matched + seeded_.size(), first_matched_);  // seeded: scored once, not again
+    return finish();
+  }
 
+ private:
+  static constexpr std::size_t kNone = std::numeric_limits<std::size_t>::max();
+
+  // Whether a first pass over the top parts may find k documents that no
+  // document outside them can beat: only if a document in every top part
+  // could score more than one in none (else, e.g. a rare word without a
+  // tier beside frequent ones, the first pass is wasted work).
+  bool tops_may_decide() {
+    auto top = [&](const Part& p) { return p.partner != kNone && !p.rest && !p.dropped; };
+    double in_tops = 0, outside = 0;
+    acc_clear();
+    for (std::size_t p = 0; p < parts_.size(); ++p)
+      if (top(parts_[p])) raise(parts_[p].term, bound_[p]);
+    in_tops = total_;
+    if (in_tops == 0) return false;
+    acc_clear();
+    for (std::size_t p = 0; p < parts_.size(); ++p)
+      if (!parts_[p].dropped && !top(parts_[p])) raise(parts_[p].term, bound_[p]);
+    outside = total_;
+    return in_tops > outside;
+  }
+
+  // A heap whose container can be read (the documents of a first pass).
+  struct Heap : std::priority_queue<ScoredDoc, std::vector<ScoredDoc>, Better> {
+    const std::vector<ScoredDoc>& container() const { return c; }
+  };
+
+  // order_: the parts in use by ascending key; with tops_last, every part
+  // that is not a top part first (their count in *lookups), then the top
+  // parts. prefix_[m]: a document found only in order_[0..m]; a split term
+  // counts the larger of its two parts (a document is in at most one).
+  void order_parts(bool tops_last, std::size_t* lookups) {
+    order_.clear();
+    for (std::size_t p = 0; p < parts_.size(); ++p)
+      if (!parts_[p].dropped) order_.push_back(p);
+    auto top = [&](std::size_t p) { return parts_[p].partner != kNone && !parts_[p].rest; };
+    std::stable_sort(order_.begin(), order_.end(), [&](std::size_t a, std::size_t b) {
+      if (tops_last && top(a) != top(b)) return top(b);
+      return key_[a] < key_[b];
+    });
+    if (lookups)
+      *lookups = static_cast<std::size_t>(std::count_if(order_.begin(), order_.end(), [&](std::size_t p) { return !top(p); }));
+    prefix_.clear();
+    acc_clear();
+    for (std::size_t p : order_) {
+      raise(parts_[p].term, bound_[p]);
+      prefix_.push_back(total_);
+    }
+  }
+
+  // Document at a time over the essential parts order_[lazy_..].
+  Status walk() {
     while (true) {
       DocId doc = kNoDoc;
       for (std::size_t m = lazy_; m < order_.size(); ++m) {
@@ -140,7 +273,7 @@ class Walk {
         if (c.valid() && c.doc() < doc) doc = c.doc();
       }
       if (doc == kNoDoc) break;
-      if (full_ && skip_blocks()) {
+      if (full_ && skip_blocks(doc)) {
         out_.matched_exact = false;
         continue;
       }
@@ -161,8 +294,12 @@ class Walk {
         if (c.valid() && c.doc() == doc) c.next();
       }
     }
-    for (PostingCursor* c : cursors_)
-      if (c && !c->status().ok()) return c->status();
+    return Status();
+  }
+
+  Result<TopKResult> finish() {
+    for (PostingCursor* c : all_)
+      if (!c->status().ok()) return c->status();
     while (!heap_.empty()) {
       out_.ranked.push_back(std::move(const_cast<ScoredDoc&>(heap_.top())));
       heap_.pop();
@@ -171,135 +308,160 @@ class Walk {
     return std::move(out_);
   }
 
- private:
-  static constexpr std::size_t kNone = std::numeric_limits<std::size_t>::max();
 
-  PostingCursor& cursor(std::size_t m) { return *cursors_[order_[m]]; }
+  // One cursor the walk reads: a term's whole list, or for a term with an
+  // impact tier its top postings and its whole list standing for the rest
+  // (bounded by the rest's points; a document of the top part found through
+  // it gets its real tf, which is the same).
+  struct Part {
+    PostingCursor* cursor;
+    std::size_t term;
+    bool rest;                               // the whole list, for documents not in the top part
+    std::span<const BoundPoint> rest_points;  // cover the rest
+    std::size_t partner;                     // the other part of a split term, else kNone
+    bool dropped = false;                    // a top part not worth reading (unsplit)
+  };
+
+  PostingCursor& cursor(std::size_t m) { return *parts_[order_[m]].cursor; }
   // A document whose score is at most `bound` cannot enter the top k.
   bool cannot_enter(double bound) const { return full_ && bound + std::abs(bound) * kSlack < theta_; }
-  // Bound of a document found only in the first m terms of order_.
+  // Bound of a document found only in the first m parts of order_.
   double lazy_bound(std::size_t m) const { return m == 0 ? 0.0 : prefix_[m - 1]; }
-  // Groups of terms (TopKModel::group) and their caps.
+  // Reads rest part p's list as the term's whole list again.
+  void unsplit(std::size_t p) {
+    Part& rest = parts_[p];
+    parts_[rest.partner].dropped = true;
+    rest.rest = false;
+    rest.partner = kNone;
+    bound_[p] = points_bound(rest.term, rest.cursor->list().list_points());
+    if (!grouped_) bound_[p] = std::min(bound_[p], model_.term_bound(rest.term));
+  }
+  // Groups of terms (TopKModel::group); grouped_ when one has two or more.
+  // Then bounds are raw amounts (member_raw), turned into scores by group_bound.
   void make_groups() {
-    group_.assign(cursors_.size(), 0);
+    group_.assign(tfs_.size(), 0);
     std::size_t groups = 0;
-    for (std::size_t i = 0; i < cursors_.size(); ++i) {
+    for (std::size_t i = 0; i < tfs_.size(); ++i) {
       group_[i] = model_.group(i);
       groups = std::max(groups, group_[i] + 1);
     }
-    cap_.assign(groups, std::numeric_limits<double>::infinity());
     gsum_.assign(groups, 0);
-    for (std::size_t g = 0; g < groups; ++g) {
-      std::vector<std::size_t> members;
-      std::vector<std::span<const BoundPoint>> points;
-      for (std::size_t i : order_)
-        if (group_[i] == g) members.push_back(i);
-      std::sort(members.begin(), members.end());
-      for (std::size_t i : members) points.push_back(cursors_[i]->list().list_points());
-      if (members.size() > 1) cap_[g] = model_.group_cap(g, members, points);
-      if (members.size() > 1) grouped_ = true;
+    std::vector<std::size_t> members(groups, 0);
+    std::vector<bool> seen(tfs_.size(), false);
+    for (const Part& p : parts_)
+      if (!seen[p.term]) {
+        seen[p.term] = true;
+        if (++members[group_[p.term]] > 1) grouped_ = true;
+      }
+  }
+  // The running bound: total_ = the sum over groups of group_bound(gsum_)
+  // (plain sum when not grouped_), tb_ = each term's share in it.
+  void acc_clear() {
+    if (grouped_) std::fill(gsum_.begin(), gsum_.end(), 0.0);
+    std::fill(tb_.begin(), tb_.end(), 0.0);
+    total_ = 0;
+  }
+  void acc_add(std::size_t term, double delta) {
+    tb_[term] += delta;
+    if (!grouped_) {
+      total_ += delta;
+      return;
     }
+    const std::size_t g = group_[term];
+    const double before = model_.group_bound(g, gsum_[g]);
+    gsum_[g] += delta;
+    total_ += model_.group_bound(g, gsum_[g]) - before;
   }
-  void clear_groups() { std::fill(gsum_.begin(), gsum_.end(), 0.0); }
-  // The sum of gsum_ with each group capped.
-  double capped() const {
-    double total = 0;
-    for (std::size_t g = 0; g < gsum_.size(); ++g) total += std::min(gsum_[g], cap_[g]);
-    return total;
+  void raise(std::size_t term, double v) {
+    if (v > tb_[term]) acc_add(term, v - tb_[term]);
   }
+  void set(std::size_t term, double v) { acc_add(term, v - tb_[term]); }
+  // Term i's largest bound (raw amount when grouped_) at the given points.
   double points_bound(std::size_t i, std::span<const BoundPoint> points) const {
     double b = 0;
-    for (const BoundPoint& p : points) b = std::max(b, model_.block_bound(i, p.tf, p.length));
+    for (const BoundPoint& p : points)
+      b = std::max(b, grouped_ ? model_.member_raw(i, p.tf, p.length) : model_.block_bound(i, p.tf, p.length));
     return b;
   }
-  // The bound of essential term order_[m]'s current block, once per block.
+  double doc_unit(std::size_t i, std::uint32_t tf, DocId doc) const {
+    return grouped_ ? model_.doc_raw(i, tf, doc) : model_.doc_bound(i, tf, doc);
+  }
+  // The bound of essential part order_[m]'s current block, once per block.
   double current_block_bound(std::size_t m) {
-    const std::size_t i = order_[m];
-    const PostingCursor& c = *cursors_[i];
-    if (c.block() != cached_block_[i]) {
-      cached_block_[i] = c.block();
-      block_bound_[i] = points_bound(i, c.block_points());
+    const std::size_t p = order_[m];
+    const PostingCursor& c = *parts_[p].cursor;
+    if (c.block() != cached_block_[p]) {
+      cached_block_[p] = c.block();
+      block_bound_[p] = std::min(bound_[p], points_bound(parts_[p].term, c.block_points()));
     }
-    return block_bound_[i];
+    return block_bound_[p];
   }
   // Skips the run of documents up to the nearest end of an essential block
   // if no document in it can enter; returns whether it did.
-  bool skip_blocks() {
+  bool skip_blocks(DocId doc) {
+    // Until the nearest block end, the essential blocks and so their bound
+    // stay the same (cursors only move forward): only θ may have risen.
+    if (doc <= run_end_ && lazy_ == run_lazy_) return cannot_enter(run_bound_) && skip_to(run_end_);
     DocId end = kNoDoc;
-    double bound = 0;
-    if (grouped_) {
-      clear_groups();
-      for (std::size_t m = 0; m < lazy_; ++m) gsum_[group_[order_[m]]] += term_bound_[order_[m]];
-    } else {
-      bound = lazy_bound(lazy_);
-    }
+    acc_clear();
+    for (std::size_t m = 0; m < lazy_; ++m) raise(parts_[order_[m]].term, bound_[order_[m]]);
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       const PostingCursor& c = cursor(m);
       if (!c.valid()) continue;
       end = std::min(end, c.block_last_doc());
-      if (grouped_) gsum_[group_[order_[m]]] += current_block_bound(m);
-      else bound += current_block_bound(m);
+      raise(parts_[order_[m]].term, current_block_bound(m));
     }
-    if (grouped_) bound = capped();
-    if (end == kNoDoc || !cannot_enter(bound)) return false;
+    if (end == kNoDoc) return false;
+    run_end_ = end, run_lazy_ = lazy_, run_bound_ = total_;
+    return cannot_enter(total_) && skip_to(end);
+  }
+  // Moves the essential cursors past `end`; returns true.
+  bool skip_to(DocId end) {
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       PostingCursor& c = cursor(m);
       if (c.valid() && c.doc() <= end) c.seek(end + 1);
     }
     return true;
   }
-  // Candidate `doc`: fills tfs_, tightening its bound; false if dropped.
+  // Candidate `doc`: fills tfs_, tightening its bound one non-essential part
+  // at a time (largest bound first); false once it cannot enter.
   bool gather(DocId doc) {
     std::fill(tfs_.begin(), tfs_.end(), 0);
-    if (grouped_) return gather_grouped(doc);
-    double known = 0;  // bound from the terms whose tf in doc is known
+    std::fill(resolved_.begin(), resolved_.end(), 0);
+    acc_clear();
     for (std::size_t m = lazy_; m < order_.size(); ++m) {
       const PostingCursor& c = cursor(m);
-      if (c.valid() && c.doc() == doc) {
-        const std::size_t i = order_[m];
+      const std::size_t i = parts_[order_[m]].term;
+      if (c.valid() && c.doc() == doc && !resolved_[i]) {
         tfs_[i] = c.tf();
-        known += model_.doc_bound(i, tfs_[i], doc);
+        resolved_[i] = 1;
+        set(i, doc_unit(i, tfs_[i], doc));
       }
     }
-    // Non-essential terms, largest bound first, while the doc can still enter.
+    for (std::size_t m = 0; m < lazy_; ++m)
+      if (!resolved_[parts_[order_[m]].term]) raise(parts_[order_[m]].term, bound_[order_[m]]);
     for (std::size_t m = lazy_; m-- > 0;) {
-      if (cannot_enter(known + lazy_bound(m + 1))) return false;
-      PostingCursor& c = cursor(m);
+      if (cannot_enter(total_)) return false;
+      const Part& part = parts_[order_[m]];
+      const std::size_t i = part.term;
+      if (resolved_[i]) continue;
+      PostingCursor& c = *part.cursor;
       c.seek(doc);
       if (c.valid() && c.doc() == doc) {
-        tfs_[order_[m]] = c.tf();
-        known += model_.doc_bound(order_[m], c.tf(), doc);
-      }
-    }
-    return !cannot_enter(known);
-  }
-  // gather() with group caps: per group, the known terms' doc bounds plus
-  // the term bounds of the non-essential terms not looked at yet.
-  bool gather_grouped(DocId doc) {
-    clear_groups();
-    for (std::size_t m = 0; m < lazy_; ++m) gsum_[group_[order_[m]]] += term_bound_[order_[m]];
-    for (std::size_t m = lazy_; m < order_.size(); ++m) {
-      const PostingCursor& c = cursor(m);
-      if (c.valid() && c.doc() == doc) {
-        const std::size_t i = order_[m];
         tfs_[i] = c.tf();
-        gsum_[group_[i]] += model_.doc_bound(i, tfs_[i], doc);
+        resolved_[i] = 1;
+        set(i, doc_unit(i, tfs_[i], doc));
+      } else if (part.partner != kNone && !part.rest) {
+        set(i, bound_[part.partner]);  // not in the top part: the rest (looked at next) bounds it
+      } else {
+        resolved_[i] = 1;
+        set(i, 0.0);
       }
     }
-    for (std::size_t m = lazy_; m-- > 0;) {
-      if (cannot_enter(capped())) return false;
-      const std::size_t i = order_[m];
-      PostingCursor& c = cursor(m);
-      c.seek(doc);
-      gsum_[group_[i]] -= term_bound_[i];
-      if (c.valid() && c.doc() == doc) {
-        tfs_[i] = c.tf();
-        gsum_[group_[i]] += model_.doc_bound(i, c.tf(), doc);
-      }
-    }
-    return !cannot_enter(capped());
+    return !cannot_enter(total_);
   }
   Status offer(DocId doc) {
+    if (!seeded_.empty() && std::binary_search(seeded_.begin(), seeded_.end(), doc)) return Status();  // scored first
     auto admitted = model_.admit(doc);
     if (!admitted) return admitted.status();
     if (!*admitted) return Status();
@@ -317,28 +479,37 @@ class Walk {
       full_ = true;
       theta_ = heap_.top().score;
       while (lazy_ < order_.size() && cannot_enter(prefix_[lazy_])) ++lazy_;
-      if (lazy_ > 0) out_.matched_exact = false;  // documents only in those terms go unseen
+      if (lazy_ > 0) out_.matched_exact = false;  // documents only in those parts go unseen
     }
     return Status();
   }
 
-  std::vector<PostingCursor*> cursors_;
   Model& model_;
   const std::size_t k_;
   const bool prune_;
-  std::vector<std::uint32_t> tfs_;
-  std::vector<std::size_t> cached_block_;  // per term: the block whose bound is cached
-  std::vector<double> block_bound_;        // per term: that bound
-  std::vector<double> term_bound_;         // per term: bound on any document
+  std::vector<Part> parts_;
+  std::vector<PostingCursor*> all_;        // every part's cursor, for errors
+  std::vector<std::uint32_t> tfs_;         // per term: tf in the candidate
+  std::vector<char> resolved_;             // per term: the candidate's tf is known
+  std::vector<double> tb_;                 // per term: its share of total_
   std::vector<std::size_t> group_;         // per term: its group
-  std::vector<double> cap_;                // per group: cap on its total
-  std::vector<double> gsum_;               // per group: scratch sums
+  std::vector<double> gsum_;               // per group: raw sum
+  double total_ = 0;                       // the running bound (acc_clear, acc_add)
   bool grouped_ = false;                   // some group has two or more terms
-  std::vector<std::size_t> order_;  // terms with postings, by ascending term bound
-  std::vector<double> prefix_;      // prefix_[m] = sum of the bounds of order_[0..m]
+  std::vector<double> bound_;              // per part: bound on any document (raw when grouped_)
+  std::vector<std::size_t> cached_block_;  // per part: the block whose bound is cached
+  std::vector<double> block_bound_;        // per part: that bound
+  std::vector<std::size_t> order_;  // parts in use, by ascending bound
+  std::vector<double> prefix_;      // prefix_[m] = bound of a document found only in order_[0..m]
   std::size_t lazy_ = 0;            // order_[0..lazy_) are non-essential
-  std::priority_queue<ScoredDoc, std::vector<ScoredDoc>, Better> heap_;
+  Heap heap_;
+  std::vector<DocId> seeded_;        // the first pass's heap, by doc: not offered again
+  std::uint64_t first_matched_ = 0;  // documents the first pass scored
+  std::vector<double> key_;          // per part: its bound as a score, to order parts by
   bool full_ = false;               // heap holds k documents (pruning active)
+  DocId run_end_ = 0;               // skip_blocks' last run of blocks: its end ...
+  std::size_t run_lazy_ = kNone;    // ... lazy_ then ...
+  double run_bound_ = 0;            // ... and the bound of any document in it
   double theta_ = 0;                // the k-th best score once full_
   TopKResult out_;
 };
@@ -350,9 +521,11 @@ class Walk {
 // document in the union of the postings; k = 0 returns no document and counts
 // exactly too. Errors: the cursors' and the model's. `Model` is TopKModel or
 // a class with the same methods (a `final` subclass gets direct calls).
+// `tiers`, empty or one per term, gives terms an impact tier to read first.
 template <class Model>
-Result<TopKResult> top_k_walk(std::span<PostingCursor* const> cursors, Model& model, std::size_t k, bool count_all) {
-  return topk_detail::Walk<Model>(cursors, model, k, !count_all && k > 0).run();
+Result<TopKResult> top_k_walk(std::span<PostingCursor* const> cursors, Model& model, std::size_t k, bool count_all,
+                              std::span<const TierCursor> tiers = {}) {
+  return topk_detail::Walk<Model>(cursors, tiers, model, k, !count_all && k > 0).run();
 }
 
 // The same through TopKModel's virtual calls, over owned cursors.

@@ -9,6 +9,7 @@
 #include "index/codec.h"
 #include "index/schema.h"
 #include "index/sqlite.h"
+#include "index/tier.h"
 #include "lode/index.h"
 
 namespace lode {
@@ -64,6 +65,8 @@ struct ReaderCache::Impl {
   std::shared_ptr<const DocNorms> norms;
   std::unordered_map<TermId, Entry> lists;
   std::map<std::pair<TermId, TermId>, std::uint64_t> overlaps;  // live_overlap() results
+  std::unordered_map<TermId, std::shared_ptr<const ImpactTier>> tiers;  // impact_tiers() results (null: none)
+  std::size_t tier_bytes = 0;
   std::list<TermId> lru;  // most recently used first
   std::size_t bytes = 0;
   Counts counts;
@@ -75,6 +78,8 @@ struct ReaderCache::Impl {
     generation = g;
     norms.reset();
     overlaps.clear();
+    tiers.clear();
+    tier_bytes = 0;
     lists.clear();
     lru.clear();
     bytes = 0;
@@ -125,6 +130,7 @@ struct IndexReader::Impl final : PositionSource {
   bool in_scope = false;
   std::shared_ptr<ReaderCache> cache;
   std::shared_ptr<const DocNorms> norms;  // this snapshot's, once loaded
+  TierOptions tier_options;
   sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_pages, q_segments, q_positions;
 
   Status prepare_all() {
@@ -184,6 +190,7 @@ Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path, 
     return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
   auto impl = std::make_unique<Impl>();
   impl->cache = options.cache ? options.cache : std::make_shared<ReaderCache>();
+  impl->tier_options = TierOptions{options.tier_min_postings, options.tier_share};
   auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
   if (!db) {
     db = sql::Db::open(path, SQLITE_OPEN_READONLY);
@@ -287,6 +294,36 @@ Result<std::vector<std::shared_ptr<const PostingList>>> IndexReader::postings_li
 
 std::unique_ptr<PostingCursor> IndexReader::cursor(std::shared_ptr<const PostingList> list) {
   return std::make_unique<PostingCursor>(std::move(list), impl_.get());
+}
+
+Result<std::vector<std::shared_ptr<const ImpactTier>>> IndexReader::impact_tiers(const std::vector<TermInfo>& terms) {
+  ReaderCache::Impl& c = *impl_->cache->impl_;
+  const std::uint64_t g = impl_->counters.generation;
+  std::vector<std::shared_ptr<const ImpactTier>> out(terms.size());
+  for (std::size_t i = 0; i < terms.size(); ++i) {
+    {
+      std::lock_guard lock(c.mu);
+      c.at_generation(g);
+      if (auto it = c.tiers.find(terms[i].id); it != c.tiers.end()) {
+        out[i] = it->second;
+        continue;
+      }
+    }
+    auto n = norms();
+    if (!n) return n.status();
+    auto list = impl_->load_list(terms[i].id);
+    if (!list) return list.status();
+    auto tier = build_impact_tier(**list, **n, terms[i].field, stats().average_length(terms[i].field),
+                                  impl_->tier_options);
+    if (!tier) return tier.status();
+    out[i] = *tier;
+    std::lock_guard lock(c.mu);
+    c.at_generation(g);
+    const std::size_t size = out[i] ? out[i]->top->memory() : 0;
+    if (c.tier_bytes + size > c.budget / 4) c.tiers.clear(), c.tier_bytes = 0;  // bounded: a quarter of the budget
+    if (c.tiers.emplace(terms[i].id, out[i]).second) c.tier_bytes += size;
+  }
+  return out;
 }
 
 Result<std::uint64_t> IndexReader::live_overlap(TermId a, TermId b) {

@@ -27,6 +27,11 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
       const double scale = t.query_weight * t.idf * (k1 + 1.0) * (options.fields == FieldScoring::kSum ? fw : 1.0);
       fast_.push_back(FastBound{fw, avg > 0 ? 1.0 - b : 1.0, avg > 0 ? b / avg : 0.0, k1, scale});
     }
+    if (options.fields == FieldScoring::kJoint) {
+      group_scale_.assign(terms_.size(), 0.0);
+      for (std::size_t i = 0; i < terms_.size(); ++i)
+        group_scale_[terms_[i].group] = std::max(group_scale_[terms_[i].group], fast_[i].scale);
+    }
     return;
   }
   // TF-IDF: one query vector per field, normalised on its own.
@@ -183,21 +188,23 @@ std::size_t Scorer::group(std::size_t i) const {
   return options_.model == Model::kBm25 && options_.fields == FieldScoring::kJoint ? terms_[i].group : i;
 }
 
-double Scorer::group_cap(std::span<const std::size_t> members,
-                         std::span<const std::span<const BoundPoint>> points) const {
-  if (fast_.empty() || options_.fields != FieldScoring::kJoint) return std::numeric_limits<double>::infinity();
-  double x = 0, scale = 0;
-  for (std::size_t k = 0; k < members.size(); ++k) {
-    const FastBound& f = fast_[members[k]];
-    double best = 0;  // the member's largest w*tf/B: x rises with tf and falls with length
-    for (const BoundPoint& p : points[k]) {
-      const double tf = p.tf, length = std::max<double>(p.length, p.tf);
-      best = std::max(best, f.fw * tf / (f.one_minus_b + f.b_over_avg * length));
-    }
-    x += best;
-    scale = std::max(scale, f.scale);
-  }
-  return x > 0 ? scale * x / (x + options_.bm25.k1) : 0;
+bool Scorer::joint() const { return !fast_.empty() && options_.fields == FieldScoring::kJoint; }
+
+double Scorer::member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const {
+  if (!joint()) return bound(i, tf, length);
+  if (!terms_[i].info || tf == 0) return 0;
+  const FastBound& f = fast_[i];
+  const double len = std::max<double>(length, tf);  // a field holding tf words is at least tf long
+  return f.fw * tf / (f.one_minus_b + f.b_over_avg * len);
+}
+
+double Scorer::doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const {
+  return member_raw(i, tf, norms_->length(doc, terms_[i].field));
+}
+
+double Scorer::group_bound(std::size_t g, double raw) const {
+  if (!joint()) return raw;
+  return raw > 0 ? group_scale_[g] * raw / (raw + options_.bm25.k1) : 0;
 }
 
 double Scorer::term_bound(std::size_t i) const {

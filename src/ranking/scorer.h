@@ -40,11 +40,14 @@ class Scorer {
   double term_bound(std::size_t i) const;
   double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const;
-  // Groups for lode/topk.h: joint BM25 caps a word's fields together at
-  // max qtf * idf * sat(sum of the fields' largest w*tf/B), since the fields
-  // share one saturation; other models leave every term alone.
+  // Groups for lode/topk.h: joint BM25 groups a word's fields, which share
+  // one saturation: a member's raw amount is its w*tf/B, and a group's total
+  // is at most max qtf * idf * sat(x) for x the sum of its members' amounts.
+  // Other models leave every term alone (raw amount = bound, identity).
   std::size_t group(std::size_t i) const;
-  double group_cap(std::span<const std::size_t> members, std::span<const std::span<const BoundPoint>> points) const;
+  double member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
+  double doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const;
+  double group_bound(std::size_t g, double raw) const;
 
  private:
   struct DocVector {
@@ -56,6 +59,8 @@ class Scorer {
   Status group_fields();
   // Bound for tf <= `tf` and field length >= `length`.
   double bound(std::size_t i, double tf, double length) const;
+  // BM25 with joint fields: the fast_ constants and group_scale_ are set.
+  bool joint() const;
   // Bound of a cosine-normalised document weight (<= 1) for those tf and length.
   double cosine_share_bound(double tf, double length) const;
   double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
@@ -74,6 +79,7 @@ class Scorer {
   std::unordered_map<TermId, std::uint64_t> df_cache_;
   Status status_;                       // from the constructor (group_fields); score() returns it
   std::vector<double> group_x_;         // joint BM25 scratch: x per group
+  std::vector<double> group_scale_;     // joint BM25: per group, max qtf * idf * (k1 + 1)
   std::vector<double> term_norm_;       // joint BM25 scratch: tf / B per term
 };
 

@@ -1,6 +1,7 @@
 // Searcher: parse, gather scoring terms, walk their postings in document
 // order with pruning (lode/topk.h), keep the top k, explain them.
 #include <algorithm>
+#include <functional>
 #include <map>
 #include <unordered_set>
 
@@ -144,19 +145,24 @@ namespace {
 // plan's filters and clauses deciding which documents may be returned.
 class PlanModel final : public TopKModel {
  public:
+  // `remake` builds the clause matchers anew (their cursors only go forward).
   PlanModel(const DocNorms& norms, rank::Scorer& scorer, const std::optional<std::vector<DocId>>& allowed,
-            std::vector<rank::ClauseMatcher>& required, std::vector<rank::ClauseMatcher>& excluded)
-      : norms_(norms), scorer_(scorer), allowed_(allowed), required_(required), excluded_(excluded) {}
+            std::vector<rank::ClauseMatcher>& required, std::vector<rank::ClauseMatcher>& excluded,
+            std::function<Status()> remake)
+      : norms_(norms), scorer_(scorer), allowed_(allowed), required_(required), excluded_(excluded),
+        remake_(std::move(remake)) {}
+  Status restart() override { return required_.empty() && excluded_.empty() ? Status() : remake_(); }
   double term_bound(std::size_t i) const override { return scorer_.term_bound(i); }
   double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const override {
     return scorer_.block_bound(i, tf, length);
   }
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const override { return scorer_.doc_bound(i, tf, doc); }
   std::size_t group(std::size_t i) const override { return scorer_.group(i); }
-  double group_cap(std::size_t, std::span<const std::size_t> members,
-                   std::span<const std::span<const BoundPoint>> points) const override {
-    return scorer_.group_cap(members, points);
+  double member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const override {
+    return scorer_.member_raw(i, tf, length);
   }
+  double doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const override { return scorer_.doc_raw(i, tf, doc); }
+  double group_bound(std::size_t g, double raw) const override { return scorer_.group_bound(g, raw); }
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs) override {
     return scorer_.score(doc, tfs, nullptr);
   }
@@ -201,6 +207,7 @@ class PlanModel final : public TopKModel {
   const std::optional<std::vector<DocId>>& allowed_;
   std::vector<rank::ClauseMatcher>& required_;
   std::vector<rank::ClauseMatcher>& excluded_;
+  std::function<Status()> remake_;
 };
 
 }  // namespace
@@ -220,8 +227,28 @@ Result<TopKResult> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, st
       owned[i] = reader.cursor((*lists)[next++]);
       cursors[i] = owned[i].get();
     }
-  PlanModel model(**norms, scorer, plan.allowed, plan.required, plan.excluded);
-  return top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all);
+  // Long lists' impact tiers let the walk read a frequent word's strongest
+  // postings first (lode/topk.h); counting every match needs none.
+  std::vector<TierCursor> tiers;
+  std::vector<std::unique_ptr<PostingCursor>> top_owned;
+  if (!count_all && keep > 0) {
+    std::vector<TermInfo> infos;
+    for (const auto& t : plan.terms)
+      if (t.info) infos.push_back(*t.info);
+    auto made = reader.impact_tiers(infos);
+    if (!made) return made.status();
+    tiers.resize(plan.terms.size());
+    for (std::size_t i = 0, next = 0; i < plan.terms.size(); ++i)
+      if (plan.terms[i].info) {
+        const auto& tier = (*made)[next++];
+        if (!tier) continue;
+        top_owned.push_back(reader.cursor(tier->top));
+        tiers[i] = TierCursor{top_owned.back().get(), tier->rest_points};
+      }
+  }
+  PlanModel model(**norms, scorer, plan.allowed, plan.required, plan.excluded, [&] { return make_matchers(plan); });
+  return top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all,
+                    std::span<const TierCursor>(tiers));
 }
 
 Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {

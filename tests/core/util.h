@@ -94,8 +94,8 @@ struct OpenIndex {
   std::unique_ptr<IndexReader> reader;
   std::unique_ptr<Searcher> searcher;
 };
-inline OpenIndex open_index(const std::string& path) {
-  auto reader = IndexReader::open(path);
+inline OpenIndex open_index(const std::string& path, const ReaderOptions& options = {}) {
+  auto reader = IndexReader::open(path, options);
   REQUIRE_MESSAGE(reader.ok(), reader.status().to_string());
   auto searcher = Searcher::create(**reader);
   REQUIRE_MESSAGE(searcher.ok(), searcher.status().to_string());
