@@ -3,6 +3,7 @@
 // docs/index-format.md).
 #include <algorithm>
 #include <bit>
+#include <future>
 #include <map>
 #include <span>
 
@@ -56,7 +57,16 @@ struct IndexWriter::Impl {
   Status prepare_all();
   Status begin();
   Status remove_docs_of(std::int64_t file_id);
-  Status add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns);
+  // What a document needs that no index state does: its fields analyzed and
+  // its text compressed. add_documents() makes it ready on a second thread
+  // while this one inverts and writes the documents before it.
+  struct Prepared {
+    std::array<Analyzer::Analyzed, kFieldCount> fields;
+    std::string title_blob, body_blob;
+  };
+  // Uses analyzer and compressor: one caller at a time.
+  std::vector<Prepared> prepare(std::span<const DocumentInput> docs);
+  Status add_document(std::int64_t file_id, const DocumentInput& d, Prepared& p, std::int64_t mtime_ns);
   Status flush();
   Status write_term(const PostingBatch::Runs& runs, std::span<const PostingBatch::Posting> run, Field field, TermId id,
                     bool refill);
@@ -198,15 +208,26 @@ std::vector<PageStart> page_map(const std::vector<std::uint32_t>& offsets, const
   return pages;
 }
 
-Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d, std::int64_t mtime_ns) {
+std::vector<IndexWriter::Impl::Prepared> IndexWriter::Impl::prepare(std::span<const DocumentInput> docs) {
+  std::vector<Prepared> out(docs.size());
+  for (std::size_t i = 0; i < docs.size(); ++i) {
+    out[i].fields[static_cast<std::size_t>(Field::kTitle)] = analyzer->analyze(docs[i].title);
+    out[i].fields[static_cast<std::size_t>(Field::kBody)] = analyzer->analyze(docs[i].body);
+    out[i].title_blob = compressor.compress(docs[i].title);
+    out[i].body_blob = compressor.compress(docs[i].body);
+  }
+  return out;
+}
+
+Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput& d, Prepared& p,
+                                       std::int64_t mtime_ns) {
   DocId id = static_cast<DocId>(counters.next_doc_id++);
   if (first_pending == 0) first_pending = id;
   batch.begin_document(id);
   std::array<std::uint32_t, kFieldCount> len{};
-  const std::string* text[kFieldCount] = {&d.title, &d.body};
   for (Field f : kAllFields) {
     auto fi = static_cast<std::size_t>(f);
-    auto analyzed = analyzer->analyze(*text[fi]);
+    const Analyzer::Analyzed& analyzed = p.fields[fi];
     len[fi] = static_cast<std::uint32_t>(analyzed.tokens.size());
     if (f == Field::kBody) {
       const std::string map =
@@ -222,8 +243,8 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
   LODE_RETURN_IF_ERROR(q_insert_doc.bind(1, std::int64_t{id}).bind(2, file_id).bind(3, d.external_id)
                            .bind(4, d.title).bind(5, d.kind).bind(6, std::int64_t{len[0]})
                            .bind(7, std::int64_t{len[1]}).run());
-  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, compressor.compress(d.title))
-                           .bind_blob(3, compressor.compress(d.body)).run());
+  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, p.title_blob)
+                           .bind_blob(3, p.body_blob).run());
   auto chunk = norms_chunk(id / codec::kNormsPerChunk);
   if (!chunk) return chunk.status();
   codec::put_norm(**chunk, id % codec::kNormsPerChunk, codec::NormEntry{true, len});
@@ -523,7 +544,31 @@ Status IndexWriter::add_documents(const std::vector<DocumentInput>& documents) {
   auto& m = *impl_;
   if (m.open_file.id == 0) return Status::InvalidArgument("add_documents: no file begun");
   LODE_RETURN_IF_ERROR(m.begin());  // the last part may have committed
-  for (auto& d : documents) LODE_RETURN_IF_ERROR(m.add_document(m.open_file.id, d, m.open_file.mtime_ns));
+  // In parts of up to 256 documents or 4 MiB of text: while this thread
+  // inverts and writes one part, a second one analyzes and compresses the
+  // next (the only work here that needs no index state).
+  const std::span<const DocumentInput> docs(documents);
+  auto part_end = [&](std::size_t from) {
+    std::size_t to = from, text = 0;
+    while (to < docs.size() && to - from < 256 && text < (std::size_t{4} << 20))
+      text += docs[to].title.size() + docs[to].body.size(), ++to;
+    return to;
+  };
+  std::size_t from = 0, to = part_end(0);
+  auto ready = m.prepare(docs.subspan(0, to));
+  while (from < docs.size()) {
+    const std::size_t next = to, next_to = part_end(to);
+    std::future<std::vector<Impl::Prepared>> ahead;
+    if (next < docs.size())
+      ahead = std::async(std::launch::async, [&m, part = docs.subspan(next, next_to - next)] { return m.prepare(part); });
+    for (std::size_t i = from; i < to; ++i) {
+      Status s = m.add_document(m.open_file.id, docs[i], ready[i - from], m.open_file.mtime_ns);
+      if (!s.ok()) return s;  // `ahead` waits for its thread as it goes
+    }
+    if (!ahead.valid()) break;
+    ready = ahead.get();
+    from = next, to = next_to;
+  }
   bool by_size = m.batch_bytes() >= m.options.batch_bytes;
   bool by_count = m.options.batch_documents != 0 && m.batch.documents() >= m.options.batch_documents;
   if (by_size || by_count) return m.flush();

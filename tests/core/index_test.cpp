@@ -484,3 +484,56 @@ TEST_CASE("readers sharing a cache reuse decoded postings and see the next commi
   CHECK(docs_of(**b, "beacon").size() == 3);  // a new generation: the cached list is not used
   CHECK(docs_of(**a, "beacon").size() == 3);
 }
+
+TEST_CASE("documents added in one large call index exactly as when added one by one") {
+  // add_documents() analyzes and compresses the next part of a large call on
+  // a second thread while it writes the current one: part boundaries (256
+  // documents) must change nothing.
+  std::vector<DocumentInput> docs;
+  for (int i = 0; i < 700; ++i)
+    docs.push_back(doc_input("r" + std::to_string(i), "lamp " + std::to_string(i % 7),
+                             "keeper logs tide " + std::to_string(i) + (i % 3 ? " gale lamp" : " calm")));
+  TempDir dir;
+  auto build = [&](const std::string& path, bool one_call) {
+    auto w = IndexWriter::open(path, IndexSettings{}, WriterOptions{});
+    REQUIRE(w.ok());
+    FileRecord f{"/virtual/records.jsonl", "/virtual", 1, 1, "h", "jsonl"};
+    REQUIRE((*w)->begin_file(f).ok());
+    if (one_call) {
+      REQUIRE((*w)->add_documents(docs).ok());
+    } else {
+      for (const DocumentInput& d : docs) REQUIRE((*w)->add_documents({d}).ok());
+    }
+    REQUIRE((*w)->finish_file(f).ok());
+    REQUIRE((*w)->commit().ok());
+  };
+  build(dir.str("one.sqlite"), true);
+  build(dir.str("each.sqlite"), false);
+  OpenIndex one = open_index(dir.str("one.sqlite")), each = open_index(dir.str("each.sqlite"));
+  auto s1 = one.reader->begin();
+  auto s2 = each.reader->begin();
+  REQUIRE(s1.ok());
+  REQUIRE(s2.ok());
+  CHECK(one.reader->stats().documents == 700);
+  CHECK(one.reader->stats().postings == each.reader->stats().postings);
+  for (DocId d : {1u, 255u, 256u, 257u, 512u, 700u}) {
+    CAPTURE(d);
+    CHECK(one.reader->stored_text(d, Field::kBody).value() == each.reader->stored_text(d, Field::kBody).value());
+    CHECK(one.reader->forward(d, Field::kBody).value() == each.reader->forward(d, Field::kBody).value());
+    CHECK(one.reader->length(d, Field::kTitle) == each.reader->length(d, Field::kTitle));
+  }
+  for (const char* word : {"tide", "gale", "lamp", "calm"}) {
+    auto a = one.reader->term(Field::kBody, word), b = each.reader->term(Field::kBody, word);
+    REQUIRE(a.ok());
+    REQUIRE(b.ok());
+    REQUIRE(a->has_value());
+    CHECK((*a)->df == (*b)->df);
+    CHECK((*a)->cf == (*b)->cf);
+    auto ca = one.reader->postings(**a), cb = each.reader->postings(**b);
+    for (; ca->valid() && cb->valid(); ca->next(), cb->next()) {
+      CHECK(ca->doc() == cb->doc());
+      CHECK(ca->positions().value() == cb->positions().value());
+    }
+    CHECK(ca->valid() == cb->valid());
+  }
+}
