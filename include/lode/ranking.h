@@ -123,7 +123,11 @@ struct SearchOptions {
   // SearchResults::matched may be a lower bound.
   bool count_all = false;
   QueryLimits limits;
+  // Query text as typed syntax (default: people type queries) or as plain
+  // words (lode/query.h); judged queries and batch files use kPlain.
+  QueryReading reading = QueryReading::kSyntax;
   FeedbackOptions feedback;   // pseudo-relevance feedback (off by default)
+  ProximityOptions proximity; // BM25TP term proximity (off by default)
 };
 
 // One (term, field) pair's share of a hit's score.

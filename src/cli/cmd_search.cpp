@@ -17,6 +17,7 @@ struct SearchArgs {
   ModelArgs model;
   std::size_t top = 10, offset = 0;
   bool json = false, why = false, no_snippets = false, count_all = false;
+  bool query_syntax = false;  // --batch: parse the queries as query syntax (default: plain text)
   std::string batch, run_tag;
 };
 
@@ -95,6 +96,9 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
   if (!app.count("--top")) o.top = 1000;  // the usual depth of a TREC run
   o.breakdown = false;
   o.snippets = false;
+  o.reading = a.query_syntax ? QueryReading::kSyntax : QueryReading::kPlain;
+  // A TREC run has no header line: say how the queries were read on stderr.
+  std::fprintf(stderr, "lode: %s, %s\n", describe(o).c_str(), describe_reading(o.reading).c_str());
   std::string tag = a.run_tag.empty() ? "lode-" + std::string(model_name(o.model)) : a.run_tag;
   for (const QueryLine& q : *queries) {
     auto results = searcher.search(q.text, o);
@@ -112,6 +116,8 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
 int run_search(const SearchArgs& a, const Setup& setup, CLI::App& app) {
   if (a.batch.empty() == a.query.empty())
     return fail(Status::InvalidArgument("give either a QUERY or --batch FILE"));
+  if (a.query_syntax && a.batch.empty())
+    return fail(Status::InvalidArgument("--query-syntax applies to --batch (a single QUERY is always parsed)"));
   auto opts = to_options(a);
   if (!opts) return fail(opts.status());
   auto reader = IndexReader::open(resolve_index(setup));
@@ -137,6 +143,8 @@ Runner add_search_command(CLI::App& app, const Setup& setup) {
                "count every matching document exactly (slower: scores them all instead of pruning)");
   app.add_option("--batch", a->batch, "queries file, one 'id<TAB>text' per line; prints a TREC run")
       ->type_name("FILE");
+  app.add_flag("--query-syntax", a->query_syntax,
+               "--batch: read the queries as query syntax (\"phrases\", +required, -excluded); default: plain text");
   app.add_option("--run-tag", a->run_tag, "last column of the TREC run (default lode-MODEL)");
   return [a, &setup, &app] { return run_search(*a, setup, app); };
 }

@@ -83,4 +83,8 @@ std::string describe(const SearchOptions& o) {
   return s;
 }
 
+std::string describe_reading(QueryReading r) {
+  return r == QueryReading::kPlain ? "queries read as plain text" : "queries parsed as query syntax";
+}
+
 }  // namespace lode::cli

@@ -34,5 +34,8 @@ void add_model_options(CLI::App& app, ModelArgs& args);
 Result<SearchOptions> to_search_options(const ModelArgs& args);
 // "bm25 k1=1.2 b=0.75 fields=joint title=1 body=1" (+ " feedback=10x10@0.5"), or the TF-IDF equivalent.
 std::string describe(const SearchOptions& o);
+// How queries were read, for run and report headers: "queries read as plain
+// text" or "queries parsed as query syntax".
+std::string describe_reading(QueryReading r);
 
 }  // namespace lode::cli

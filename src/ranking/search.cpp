@@ -56,7 +56,7 @@ Status check_options(const SearchOptions& o) {
 Result<Searcher::Impl::Plan> Searcher::Impl::plan(std::string_view text, const SearchOptions& options) {
   LODE_RETURN_IF_ERROR(check_options(options));
   Plan p;
-  auto q = parse_query(text, *analyzer, options.limits);
+  auto q = parse_query(text, *analyzer, options.limits, options.reading);
   if (!q) return q.status();
   p.query = std::move(q.value());
   std::map<std::pair<Field, std::string>, double> qtf;  // ordered: deterministic term order
