@@ -164,7 +164,8 @@ struct Hit {
 };
 
 struct SearchResults {
-  std::vector<Hit> hits;       // best first; ties broken by lower doc id
+  std::vector<Hit> hits;       // best first; equal scores by external id (ascending), so the
+                               // order never depends on the order documents were indexed in
   std::uint64_t matched = 0;   // live documents matching the query (a lower bound unless matched_exact)
   bool matched_exact = true;   // false: pruning skipped documents that match (SearchOptions::count_all)
   std::vector<std::string> warnings;

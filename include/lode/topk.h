@@ -20,9 +20,12 @@
 //  * a candidate's bound is tightened with its real tf and length, one
 //    non-essential term at a time, and it is dropped as soon as it cannot pass θ.
 // The result is exactly the exhaustive top k (same scores, same order, ties
-// broken by lower doc id): bounds are never below the true contributions,
-// and a bound is only trusted to prune with a relative slack of 1e-9 so that
-// rounding in a sum cannot drop a document that would have entered.
+// broken by lower doc id) followed by every other document whose score equals
+// the k-th (so a caller can order ties by a key of its own, such as the id
+// users see, and then cut at k): bounds are never below the true
+// contributions, a bound only prunes a document that cannot reach the k-th
+// score (ties are scored), and it is only trusted with a relative slack of
+// 1e-9 so that rounding in a sum cannot drop a document that would have entered.
 //
 // The walk is a template over the model so that the per-candidate calls of a
 // `final` model class are direct (inlined) calls; TopKModel is the interface
@@ -94,7 +97,9 @@ inline bool ranks_above(const ScoredDoc& a, const ScoredDoc& b) {
 }
 
 struct TopKResult {
-  std::vector<ScoredDoc> ranked;  // best first; ties by lower doc id
+  // Best first, ties by lower doc id: the top k, then the documents tied with
+  // the k-th score that did not fit (so possibly more than k entries).
+  std::vector<ScoredDoc> ranked;
   std::uint64_t matched = 0;      // admitted documents scored
   bool matched_exact = true;      // false: pruning skipped documents, so matched is a lower bound
 };
@@ -168,6 +173,8 @@ class Walk {
       heap_.pop();
     }
     std::reverse(out_.ranked.begin(), out_.ranked.end());
+    std::sort(tied_.begin(), tied_.end(), ranks_above);
+    for (ScoredDoc& d : tied_) out_.ranked.push_back(std::move(d));
     return std::move(out_);
   }
 
@@ -309,10 +316,21 @@ class Walk {
     if (k_ == 0) return Status();
     if (heap_.size() == k_) {
       const ScoredDoc& worst = heap_.top();
-      if (!(*score > worst.score || (*score == worst.score && doc < worst.doc))) return Status();
+      if (*score < worst.score) return Status();
+      if (*score == worst.score && !(doc < worst.doc)) {
+        tied_.push_back(ScoredDoc{*score, doc, tfs_});
+        return Status();
+      }
+      ScoredDoc out = std::move(const_cast<ScoredDoc&>(heap_.top()));
       heap_.pop();
+      heap_.push(ScoredDoc{*score, doc, tfs_});
+      // tied_ holds the documents left out at the k-th score: still tied if
+      // that score stays, out of reach once it rises.
+      if (heap_.top().score == out.score) tied_.push_back(std::move(out));
+      else tied_.clear();
+    } else {
+      heap_.push(ScoredDoc{*score, doc, tfs_});
     }
-    heap_.push(ScoredDoc{*score, doc, tfs_});
     if (prune_ && heap_.size() == k_) {
       full_ = true;
       theta_ = heap_.top().score;
@@ -338,6 +356,7 @@ class Walk {
   std::vector<double> prefix_;      // prefix_[m] = sum of the bounds of order_[0..m]
   std::size_t lazy_ = 0;            // order_[0..lazy_) are non-essential
   std::priority_queue<ScoredDoc, std::vector<ScoredDoc>, Better> heap_;
+  std::vector<ScoredDoc> tied_;     // scored at the k-th score but not in heap_
   bool full_ = false;               // heap holds k documents (pruning active)
   double theta_ = 0;                // the k-th best score once full_
   TopKResult out_;

@@ -11,6 +11,7 @@
 #include "ranking/pages.h"
 #include "ranking/scorer.h"
 #include "ranking/snippet.h"
+#include "ranking/tie_order.h"
 
 namespace lode {
 struct Searcher::Impl {
@@ -26,7 +27,8 @@ struct Searcher::Impl {
   Result<Plan> plan(std::string_view text, const SearchOptions& options);
   // (Re)creates the plan's clause matchers; their cursors only move forward, so each pass needs new ones.
   Status make_matchers(Plan& plan);
-  // The best `keep` live matches of the plan, best first, pruned unless count_all (lode/topk.h).
+  // The best `keep` live matches of the plan, best first, ties by the id users
+  // see (ranking/tie_order.h), pruned unless count_all (lode/topk.h).
   Result<TopKResult> retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep, bool count_all);
   // Pseudo-relevance feedback: a first pass over the plan, then RM3 rewrites its terms.
   Status expand(Plan& plan, const SearchOptions& options);
@@ -221,7 +223,10 @@ Result<TopKResult> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, st
       cursors[i] = owned[i].get();
     }
   PlanModel model(**norms, scorer, plan.allowed, plan.required, plan.excluded);
-  return top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all);
+  auto top = top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all);
+  if (!top) return top.status();
+  LODE_RETURN_IF_ERROR(rank::order_by_visible_id(reader, top->ranked, keep));
+  return top;
 }
 
 Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {
