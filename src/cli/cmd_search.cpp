@@ -1,4 +1,5 @@
 // `lode search`: one query (text or --json) or a batch file (TREC run out).
+#include <algorithm>
 #include <cstdio>
 #include <iostream>
 
@@ -50,10 +51,13 @@ void print_breakdown(const Hit& h, Model model) {
   std::printf("      %-18s %-5s %4s %6s %8s %6s %8s %9s %8s %6s %12s\n", "term", "field", "tf", "df", "idf", "len",
               "avg_len", model == Model::kBm25 ? "tf_part" : "doc_wt", "query_wt", "fw", "contribution");
   for (const TermContribution& c : h.breakdown)
-    std::printf("      %-18s %-5s %4u %6llu %8.4f %6u %8.2f %9.4f %8.4f %6.2f %12.6f\n", c.term.c_str(),
-                std::string(field_name(c.field)).c_str(), c.tf, static_cast<unsigned long long>(c.df), c.idf,
+    std::printf("      %-18s %-5s %4u %6llu %8.4f %6u %8.2f %9.4f %8.4f %6.2f %12.6f\n",
+                (c.proximity ? "~" + c.term : c.term).c_str(), std::string(field_name(c.field)).c_str(), c.tf, static_cast<unsigned long long>(c.df), c.idf,
                 c.doc_length, c.avg_length, c.tf_part, c.query_weight, c.field_weight, c.contribution);
   std::printf("      %-18s %87s %12.6f\n", "= score", "", h.score);
+  if (std::any_of(h.breakdown.begin(), h.breakdown.end(), [](const TermContribution& c) { return c.proximity; }))
+    std::printf("      (~word: the word's proximity part, BM25TP: idf = min(1, ln N/df), tf_part = saturated "
+                "nearness to other query words)\n");
 }
 
 int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, const SearchOptions& o) {

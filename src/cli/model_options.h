@@ -22,6 +22,7 @@ struct ModelArgs {
   std::size_t feedback_docs = SearchOptions{}.feedback.documents;
   std::size_t feedback_terms = SearchOptions{}.feedback.terms;
   double feedback_weight = SearchOptions{}.feedback.original_weight;
+  bool proximity = SearchOptions{}.proximity.enabled;
 };
 
 // Takes the config file's model and field weights as defaults (an option

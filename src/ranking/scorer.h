@@ -9,6 +9,8 @@
 
 #include "lode/index.h"
 #include "lode/ranking.h"
+#include "ranking/joint_vector.h"
+#include "ranking/proximity.h"
 
 namespace lode::rank {
 
@@ -18,7 +20,7 @@ struct ScoringTerm {
   std::optional<TermInfo> info;  // nullopt: not in the index
   double qtf = 0;                // occurrences in the query
   std::uint64_t df = 0;          // df behind idf: the field's; joint BM25: documents with the term in any field
-  std::size_t group = 0;         // joint BM25: index of the term's group (same word, any field)
+  std::size_t group = 0;         // joint fields: index of the term's group (same word, any field)
   double idf = 0;                // BM25 idf, or the query-side SMART idf
   double query_weight = 0;       // BM25: qtf; TF-IDF: normalised query weight
 };
@@ -30,7 +32,8 @@ class Scorer {
   Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms);
 
   // Score of `doc` where tfs[i] is the tf of terms[i] in it (0 = absent).
-  // When `out` is given, appends one entry per term with tf > 0, in term order.
+  // When `out` is given, appends one entry per term with tf > 0, in term
+  // order, then the proximity rows (ranking/proximity.h) when it is on.
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs,
                        std::vector<TermContribution>* out);
 
@@ -51,6 +54,10 @@ class Scorer {
     double norm = 1, max_tf = 0, avg_tf = 0;
   };
   Result<DocVector> doc_vector(DocId doc, Field field);
+  // score() without the proximity parts.
+  Result<double> score_terms(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
+  // bound() without the proximity part.
+  double term_part_bound(std::size_t i, double tf, double length) const;
   Result<std::uint64_t> df_of(TermId id);
   // Joint BM25: groups terms by word and gives each group its any-field df.
   Status group_fields();
@@ -59,6 +66,12 @@ class Scorer {
   // Bound of a cosine-normalised document weight (<= 1) for those tf and length.
   double cosine_share_bound(double tf, double length) const;
   double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
+  // TF-IDF over one joint vector (ranking/joint_vector.h): the query vector
+  // per word, and a document's score split over its (term, field) entries.
+  Status weigh_joint_query();
+  Result<double> score_joint_tfidf(DocId doc, const std::vector<std::uint32_t>& tfs,
+                                   std::vector<TermContribution>* out);
+  bool joint_tfidf() const { return options_.model == Model::kTfIdf && options_.fields == FieldScoring::kJoint; }
 
   IndexReader& reader_;
   const SearchOptions& options_;
@@ -75,6 +88,8 @@ class Scorer {
   Status status_;                       // from the constructor (group_fields); score() returns it
   std::vector<double> group_x_;         // joint BM25 scratch: x per group
   std::vector<double> term_norm_;       // joint BM25 scratch: tf / B per term
+  JointVectors joint_;                  // joint TF-IDF: document vectors
+  Proximity proximity_;                 // BM25TP parts (off unless asked for)
 };
 
 }  // namespace lode::rank

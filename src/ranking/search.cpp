@@ -48,6 +48,8 @@ Status check_options(const SearchOptions& o) {
   if (!(o.smart.log_base > 1)) return Status::InvalidArgument("log base must be greater than 1");
   if (o.feedback.documents > 0 && o.model != Model::kBm25)
     return Status::InvalidArgument("feedback applies to the bm25 model only");
+  if (o.proximity.enabled && o.model != Model::kBm25)
+    return Status::InvalidArgument("proximity applies to the bm25 model only");
   if (!(o.feedback.original_weight >= 0 && o.feedback.original_weight <= 1))
     return Status::InvalidArgument("feedback original-query weight must be between 0 and 1");
   return Status();

@@ -66,7 +66,7 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   build_index(path, skewed_corpus(rng, 4000), AnalyzerOptions{"none", false}, appending);
   OpenIndex idx = open_index(path);
 
-  std::vector<SearchOptions> models(7);
+  std::vector<SearchOptions> models(10);
   models[1].fields = FieldScoring::kSum;
   models[2].bm25 = {2.0, 1.0};  // b = 1: length norms reach 0 for empty titles
   models[3].model = Model::kTfIdf;  // lnc.ltc, the TF-IDF default
@@ -76,6 +76,11 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
   models[5].smart = SmartWeighting::parse("rtn.ltc").value();
   models[6].model = Model::kTfIdf;  // lnc with natural logs: the tighter lnc bound must not apply
   models[6].smart.log_base = 2.718281828459045;
+  models[7].model = Model::kTfIdf;  // lnc.ltc per field, summed (the TF-IDF default before joint fields)
+  models[7].fields = FieldScoring::kSum;
+  models[8].proximity.enabled = true;  // BM25TP over BM25F
+  models[9].proximity.enabled = true;  // BM25TP over summed fields
+  models[9].fields = FieldScoring::kSum;
 
   int pruned = 0, queries = 0;
   std::uint64_t scored_pruned = 0, scored_all = 0;
@@ -112,10 +117,12 @@ TEST_CASE("pruned retrieval returns exactly the exhaustive top k for every model
       ++queries;
     }
   }
-  // Pruning must actually happen, or this test proves nothing about it.
+  // Pruning must actually happen, or this test proves nothing about it. (The
+  // joint TF-IDF models, four of the ten, bound a word only by its query
+  // weight, so they prune fewer queries than BM25 does.)
   MESSAGE("pruned " << pruned << " of " << queries << " queries; scored " << scored_pruned << " of " << scored_all
                     << " matching documents");
-  CHECK(pruned > queries / 2);
+  CHECK(pruned > queries / 3);
   CHECK(scored_pruned * 2 < scored_all);
 }
 
