@@ -5,10 +5,14 @@
 # text, no title field: the "plain BM25" reference) — and runs
 # `lode eval compare` with the plain BM25 as baseline against each setting given.
 #
-#   scripts/eval_collections.sh [-d DATASETS] [-o OUT] [-m "map ndcg@10 p@10"] [SETTING...]
+#   scripts/eval_collections.sh [-d DATASETS] [-o OUT] [-m "map ndcg@10 p@10"] [-b BASELINE] [--] [SETTING...]
+#   (put -- before the settings when the first one starts with a dash)
 #
 # SETTING is a string of `lode search` options ("" = the defaults); default:
-# "" and "--feedback-docs 10". Prints one line per collection, metric and
+# "" and "--feedback-docs 10". BASELINE (default "--index ONEFIELD") is the
+# system the settings are compared with; in both, the word ONEFIELD stands for
+# the one-field index (e.g. "--index ONEFIELD --model tfidf", a one-field
+# lnc.ltc). Prints one line per collection, metric and
 # setting: mean, baseline mean, randomization p, t-test p. Needs a built
 # lode (LODE, default build/lode) and python3.
 set -euo pipefail
@@ -16,11 +20,13 @@ cd "$(dirname "$0")/.."
 datasets=${DATASETS:-../shared/datasets}
 out=${OUT:-/tmp/lode-eval}
 metrics="map ndcg@10 p@10"
-while getopts "d:o:m:" opt; do
+baseline="--index ONEFIELD"
+while getopts "d:o:m:b:" opt; do
   case $opt in
     d) datasets=$OPTARG ;;
     o) out=$OPTARG ;;
     m) metrics=$OPTARG ;;
+    b) baseline=$OPTARG ;;
     *) exit 2 ;;
   esac
 done
@@ -54,15 +60,17 @@ for dir in "$datasets"/*/; do
     else cp "$dir/docs.jsonl" "$work/given/docs.jsonl"; fi
     one_field "$work/given/docs.jsonl" "$work/onefield/docs.jsonl"
   fi
-  rm -f "$work"/*.sqlite*
-  "$lode" --index "$work/given.sqlite" index -q "$work/given"
-  "$lode" --index "$work/onefield.sqlite" index -q "$work/onefield"
+  if [ "${REUSE:-0}" != 1 ] || [ ! -f "$work/onefield.sqlite" ]; then  # REUSE=1: keep the indexes of an earlier run
+    rm -f "$work"/*.sqlite*
+    "$lode" --index "$work/given.sqlite" index -q "$work/given"
+    "$lode" --index "$work/onefield.sqlite" index -q "$work/onefield"
+  fi
   cand=()
-  for s in "${settings[@]}"; do cand+=(--candidate "$s"); done
+  for s in "${settings[@]}"; do cand+=(--candidate "${s//ONEFIELD/$work/onefield.sqlite}"); done
   for m in $metrics; do
     "$lode" --index "$work/given.sqlite" eval compare --json --metric "$m" \
       --queries "$dir/queries.tsv" --judgments "$dir/qrels.txt" \
-      --baseline "--index $work/onefield.sqlite" "${cand[@]}" > "$work/compare-$m.json"
+      --baseline "${baseline//ONEFIELD/$work/onefield.sqlite}" "${cand[@]}" > "$work/compare-$m.json"
     python3 - "$c" "$m" "$work/compare-$m.json" <<'EOF'
 import json, sys
 c, m, path = sys.argv[1:]
@@ -70,7 +78,7 @@ r = json.load(open(path))
 for cand in r["candidates"]:
     t = cand["test"]
     setting = cand["system"].split(": ", 1)[-1]
-    print(f'{c:14} {m:8} {t["mean_b"]:.4f} (plain {t["mean_a"]:.4f}, {t["wins"]}/{t["ties"]}/{t["losses"]}, '
+    print(f'{c:14} {m:8} {t["mean_b"]:.4f} (baseline {t["mean_a"]:.4f}, {t["wins"]}/{t["ties"]}/{t["losses"]}, '
           f'p {t["randomization"]["p"]:.2g} / {t["t_test"]["p"]:.2g})  {setting}')
 EOF
   done

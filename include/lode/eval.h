@@ -43,9 +43,11 @@ using Run = std::map<std::string, std::vector<RunEntry>>;
 // Parses qrels text; errors name the line. `source` names the file in messages.
 Result<Qrels> parse_qrels(std::string_view text, std::string_view source);
 Result<Qrels> read_qrels(const std::string& path);
-// Parses a run; entries are ordered by score descending, ties by docid
-// descending (the trec_eval convention, so files with equal scores evaluate
-// the same everywhere). A document listed twice for one query is an
+// Parses a run; entries are ordered by score descending, ties kept in the
+// order of the file (the rank column is not read). lode writes ties in
+// ascending document id (ranking.h), so a run of lode scores the same read
+// back, searched afresh, or by an evaluator that keeps the run's order; and
+// scores printed equal to 6 decimals keep the order they were ranked in. A document listed twice for one query is an
 // InvalidArgument naming the line: its rank would be ambiguous.
 Result<Run> parse_run(std::string_view text, std::string_view source);
 Result<Run> read_run(const std::string& path);

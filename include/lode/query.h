@@ -27,6 +27,12 @@
 // @kind: value no reader gives (it matches nothing), and a query whose only
 // words are excluded (it matches nothing).
 //
+// Judged queries and batch files are natural text, not typed syntax (the TREC
+// convention): QueryReading::kPlain reads the text as bare ranked words only —
+// quotes, +, a leading -, field: and @filter: are no syntax, the analyzer
+// sees every character as text. An unbalanced quote then cannot turn the rest
+// of a question into a phrase, nor "-dash" exclude a word.
+//
 // Thread safety: parse_query uses the given Analyzer, which is single-threaded.
 #pragma once
 
@@ -67,10 +73,16 @@ struct Query {
   std::vector<std::string> warnings;  // e.g. "'the' is a stopword and was left out"
 };
 
-// Parses and analyzes `text`. Errors: Limit (too long, too many words; the
+// How query text is read: kSyntax, the syntax above (what people type);
+// kPlain, every word a bare ranked word (judged queries, batch files).
+enum class QueryReading { kSyntax, kPlain };
+std::string_view query_reading_name(QueryReading r);  // "syntax", "plain"
+
+// Parses and analyzes `text` (read as `reading` says). Errors: Limit (too long, too many words; the
 // message names the limit), InvalidArgument (invalid UTF-8, an unknown
 // @filter or a bad filter value). An unknown field before ':' is NOT an
 // error: "foo:bar" is searched as words, with a warning.
-Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits = {});
+Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits = {},
+                          QueryReading reading = QueryReading::kSyntax);
 
 }  // namespace lode

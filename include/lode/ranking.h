@@ -17,7 +17,8 @@
 //    inside the log so it stays positive when df > N/2 (the raw RSJ form goes
 //    negative there, which would make matching a common word lower a score).
 //  * TF-IDF cosine in SMART notation "ddd.qqq" (document triple, query triple),
-//    per field, summed with field weights. Letters:
+//    over one vector of title and body (FieldScoring::kJoint, the default), or
+//    per field, summed with field weights (kSum). Letters:
 //      tf:  n tf | l 1+log(tf) | a 0.5+0.5*tf/max_tf | b 1 | L (1+log tf)/(1+log avg_tf)
 //           | r tf/field length (lode extension: "count/length")
 //      idf: n 1 | t log(N/df) | p max(0, log((N-df)/df))
@@ -50,9 +51,13 @@ enum class Model { kBm25, kTfIdf };
 std::string_view model_name(Model m);                      // "bm25", "tfidf"
 std::optional<Model> parse_model(std::string_view name);
 
-// How BM25 combines the title and body fields: kSum scores each field on its
+// How the title and body fields combine. BM25: kSum scores each field on its
 // own (own saturation, own df) and adds the weighted scores; kJoint is BM25F
-// (above). TF-IDF always sums per-field cosines.
+// (above). TF-IDF: kSum adds per-field cosines (each field its own document
+// and query vector, SMART weights per field); kJoint is one vector over the
+// fields, a word's tf = sum of w_f * tf_f and its df the documents with it in
+// any weighted field, so with weights 1 and 1 it is the vector of title and
+// text joined into one field (docs/evaluation.md measures both).
 enum class FieldScoring { kSum, kJoint };
 std::string_view field_scoring_name(FieldScoring f);       // "sum", "joint"
 std::optional<FieldScoring> parse_field_scoring(std::string_view name);
@@ -102,6 +107,20 @@ struct FeedbackOptions {
   double original_weight = 0.5;  // lambda in [0, 1]; 1 reproduces the first pass
 };
 
+// Term proximity for BM25: BM25TP (Büttcher, Clarke & Lushman 2006, "Term
+// proximity scoring for ad-hoc retrieval on very large text collections",
+// SIGIR). In a document's body, every two occurrences of different query
+// words with no other query word between them, at distance d, add
+// w(other) / d^2 to each word's accumulator acc(t), with w(t) = ln(N/df_body);
+// each word then adds
+//   min(1, w(t)) * acc(t) * (k1 + 1) / (acc(t) + k1 * (1 - b + b * len/avglen))
+// to the BM25 score, with the BM25 k1 and b in force. A word's part is below
+// min(1, w(t)) * (k1 + 1) in every document, which bounds it for pruning.
+// Its breakdown row has `proximity` set. Measured in docs/evaluation.md.
+struct ProximityOptions {
+  bool enabled = false;  // off by default: docs/evaluation.md gives the figures behind the choice
+};
+
 struct SearchOptions {
   Model model = Model::kBm25;
   Bm25Params bm25;
@@ -123,7 +142,11 @@ struct SearchOptions {
   // SearchResults::matched may be a lower bound.
   bool count_all = false;
   QueryLimits limits;
+  // Query text as typed syntax (default: people type queries) or as plain
+  // words (lode/query.h); judged queries and batch files use kPlain.
+  QueryReading reading = QueryReading::kSyntax;
   FeedbackOptions feedback;   // pseudo-relevance feedback (off by default)
+  ProximityOptions proximity; // BM25TP term proximity (off by default)
 };
 
 // One (term, field) pair's share of a hit's score.
@@ -140,6 +163,11 @@ struct TermContribution {
   double field_weight = 0;
   double contribution = 0;   // = field_weight * query_weight * idf * tf_part (BM25)
                              // = field_weight * query_weight * tf_part (TF-IDF)
+  // A BM25TP proximity row (ProximityOptions): tf_part = the saturated
+  // accumulator acc*(k1+1)/(acc+K), idf = min(1, w), query_weight and
+  // field_weight 1, contribution = idf * tf_part; tf, df and lengths are the
+  // body term's.
+  bool proximity = false;
 };
 
 struct Snippet {
@@ -160,7 +188,8 @@ struct Hit {
 };
 
 struct SearchResults {
-  std::vector<Hit> hits;       // best first; ties broken by lower doc id
+  std::vector<Hit> hits;       // best first; equal scores by external id (ascending), so the
+                               // order never depends on the order documents were indexed in
   std::uint64_t matched = 0;   // live documents matching the query (a lower bound unless matched_exact)
   bool matched_exact = true;   // false: pruning skipped documents that match (SearchOptions::count_all)
   std::vector<std::string> warnings;

@@ -27,9 +27,12 @@
 //    still used to look a candidate's tf up. A frequent word whose every
 //    block holds some strong document thus stops costing its whole list.
 // The result is exactly the exhaustive top k (same scores, same order, ties
-// broken by lower doc id): bounds are never below the true contributions,
-// and a bound is only trusted to prune with a relative slack of 1e-9 so that
-// rounding in a sum cannot drop a document that would have entered.
+// broken by lower doc id) followed by every other document whose score equals
+// the k-th (so a caller can order ties by a key of its own, such as the id
+// users see, and then cut at k): bounds are never below the true
+// contributions, a bound only prunes a document that cannot reach the k-th
+// score (ties are scored), and it is only trusted with a relative slack of
+// 1e-9 so that rounding in a sum cannot drop a document that would have entered.
 //
 // The walk is a template over the model so that the per-candidate calls of a
 // `final` model class are direct (inlined) calls; TopKModel is the interface
@@ -75,7 +78,7 @@ class TopKModel {
   // group_bound(g, s), s = the sum over its members found there of
   // member_raw(i, tf, length), with that member's tf and field length (or
   // doc_raw with the document's own length); group_bound rises with s and is
-  // 0 at 0, member_raw rises with tf and falls with length. By default every
+  // 0 at 0, member_raw is finite, rises with tf and falls with length. By default every
   // term is its own group and the raw amount is the bound itself.
   virtual std::size_t group(std::size_t i) const { return i; }
   virtual double member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const {
@@ -117,7 +120,9 @@ inline bool ranks_above(const ScoredDoc& a, const ScoredDoc& b) {
 }
 
 struct TopKResult {
-  std::vector<ScoredDoc> ranked;  // best first; ties by lower doc id
+  // Best first, ties by lower doc id: the top k, then the documents tied with
+  // the k-th score that did not fit (so possibly more than k entries).
+  std::vector<ScoredDoc> ranked;
   std::uint64_t matched = 0;      // admitted documents scored
   bool matched_exact = true;      // false: pruning skipped documents, so matched is a lower bound
 };
@@ -199,6 +204,7 @@ class Walk {
         return finish();
       }
       for (const ScoredDoc& d : heap_.container()) seeded_.push_back(d.doc);
+      for (const ScoredDoc& d : tied_) seeded_.push_back(d.doc);
       std::sort(seeded_.begin(), seeded_.end());
       first_matched_ = out_.matched;
       out_.matched = 0;
@@ -227,12 +233,12 @@ class Walk {
     acc_clear();
     for (std::size_t p = 0; p < parts_.size(); ++p)
       if (top(parts_[p])) raise(parts_[p].term, bound_[p]);
-    in_tops = total_;
+    in_tops = value();
     if (in_tops == 0) return false;
     acc_clear();
     for (std::size_t p = 0; p < parts_.size(); ++p)
       if (!parts_[p].dropped && !top(parts_[p])) raise(parts_[p].term, bound_[p]);
-    outside = total_;
+    outside = value();
     return in_tops > outside;
   }
 
@@ -260,7 +266,7 @@ class Walk {
     acc_clear();
     for (std::size_t p : order_) {
       raise(parts_[p].term, bound_[p]);
-      prefix_.push_back(total_);
+      prefix_.push_back(value());
     }
   }
 
@@ -305,6 +311,8 @@ class Walk {
       heap_.pop();
     }
     std::reverse(out_.ranked.begin(), out_.ranked.end());
+    std::sort(tied_.begin(), tied_.end(), ranks_above);
+    for (ScoredDoc& d : tied_) out_.ranked.push_back(std::move(d));
     return std::move(out_);
   }
 
@@ -354,28 +362,36 @@ class Walk {
         if (++members[group_[p.term]] > 1) grouped_ = true;
       }
   }
-  // The running bound: total_ = the sum over groups of group_bound(gsum_)
-  // (plain sum when not grouped_), tb_ = each term's share in it.
+  // The running bound, value(): the sum over groups of group_bound(gsum_)
+  // (plain sum when not grouped_), tb_ = each term's share in it. Infinite
+  // parts are counted apart, so taking one back leaves the finite sum intact.
   void acc_clear() {
     if (grouped_) std::fill(gsum_.begin(), gsum_.end(), 0.0);
     std::fill(tb_.begin(), tb_.end(), 0.0);
     total_ = 0;
+    infinite_ = 0;
   }
-  void acc_add(std::size_t term, double delta) {
-    tb_[term] += delta;
+  double value() const { return infinite_ > 0 ? std::numeric_limits<double>::infinity() : total_; }
+  void acc_put(double x, int sign) {
+    if (std::isinf(x)) infinite_ += sign;
+    else total_ += sign * x;
+  }
+  void set(std::size_t term, double v) {
     if (!grouped_) {
-      total_ += delta;
+      acc_put(tb_[term], -1);
+      acc_put(v, +1);
+      tb_[term] = v;
       return;
     }
-    const std::size_t g = group_[term];
-    const double before = model_.group_bound(g, gsum_[g]);
-    gsum_[g] += delta;
-    total_ += model_.group_bound(g, gsum_[g]) - before;
+    const std::size_t g = group_[term];  // raw amounts are finite
+    acc_put(model_.group_bound(g, gsum_[g]), -1);
+    gsum_[g] += v - tb_[term];
+    tb_[term] = v;
+    acc_put(model_.group_bound(g, gsum_[g]), +1);
   }
   void raise(std::size_t term, double v) {
-    if (v > tb_[term]) acc_add(term, v - tb_[term]);
+    if (v > tb_[term]) set(term, v);
   }
-  void set(std::size_t term, double v) { acc_add(term, v - tb_[term]); }
   // Term i's largest bound (raw amount when grouped_) at the given points.
   double points_bound(std::size_t i, std::span<const BoundPoint> points) const {
     double b = 0;
@@ -412,8 +428,8 @@ class Walk {
       raise(parts_[order_[m]].term, current_block_bound(m));
     }
     if (end == kNoDoc) return false;
-    run_end_ = end, run_lazy_ = lazy_, run_bound_ = total_;
-    return cannot_enter(total_) && skip_to(end);
+    run_end_ = end, run_lazy_ = lazy_, run_bound_ = value();
+    return cannot_enter(run_bound_) && skip_to(end);
   }
   // Moves the essential cursors past `end`; returns true.
   bool skip_to(DocId end) {
@@ -441,7 +457,7 @@ class Walk {
     for (std::size_t m = 0; m < lazy_; ++m)
       if (!resolved_[parts_[order_[m]].term]) raise(parts_[order_[m]].term, bound_[order_[m]]);
     for (std::size_t m = lazy_; m-- > 0;) {
-      if (cannot_enter(total_)) return false;
+      if (cannot_enter(value())) return false;
       const Part& part = parts_[order_[m]];
       const std::size_t i = part.term;
       if (resolved_[i]) continue;
@@ -458,7 +474,7 @@ class Walk {
         set(i, 0.0);
       }
     }
-    return !cannot_enter(total_);
+    return !cannot_enter(value());
   }
   Status offer(DocId doc) {
     if (!seeded_.empty() && std::binary_search(seeded_.begin(), seeded_.end(), doc)) return Status();  // scored first
@@ -471,10 +487,21 @@ class Walk {
     if (k_ == 0) return Status();
     if (heap_.size() == k_) {
       const ScoredDoc& worst = heap_.top();
-      if (!(*score > worst.score || (*score == worst.score && doc < worst.doc))) return Status();
+      if (*score < worst.score) return Status();
+      if (*score == worst.score && !(doc < worst.doc)) {
+        tied_.push_back(ScoredDoc{*score, doc, tfs_});
+        return Status();
+      }
+      ScoredDoc out = std::move(const_cast<ScoredDoc&>(heap_.top()));
       heap_.pop();
+      heap_.push(ScoredDoc{*score, doc, tfs_});
+      // tied_ holds the documents left out at the k-th score: still tied if
+      // that score stays, out of reach once it rises.
+      if (heap_.top().score == out.score) tied_.push_back(std::move(out));
+      else tied_.clear();
+    } else {
+      heap_.push(ScoredDoc{*score, doc, tfs_});
     }
-    heap_.push(ScoredDoc{*score, doc, tfs_});
     if (prune_ && heap_.size() == k_) {
       full_ = true;
       theta_ = heap_.top().score;
@@ -491,10 +518,11 @@ class Walk {
   std::vector<PostingCursor*> all_;        // every part's cursor, for errors
   std::vector<std::uint32_t> tfs_;         // per term: tf in the candidate
   std::vector<char> resolved_;             // per term: the candidate's tf is known
-  std::vector<double> tb_;                 // per term: its share of total_
+  std::vector<double> tb_;                 // per term: its share of value()
   std::vector<std::size_t> group_;         // per term: its group
   std::vector<double> gsum_;               // per group: raw sum
-  double total_ = 0;                       // the running bound (acc_clear, acc_add)
+  double total_ = 0;                       // the running bound's finite part (acc_clear, set)
+  int infinite_ = 0;                       // and its infinite parts
   bool grouped_ = false;                   // some group has two or more terms
   std::vector<double> bound_;              // per part: bound on any document (raw when grouped_)
   std::vector<std::size_t> cached_block_;  // per part: the block whose bound is cached
@@ -503,7 +531,8 @@ class Walk {
   std::vector<double> prefix_;      // prefix_[m] = bound of a document found only in order_[0..m]
   std::size_t lazy_ = 0;            // order_[0..lazy_) are non-essential
   Heap heap_;
-  std::vector<DocId> seeded_;        // the first pass's heap, by doc: not offered again
+  std::vector<ScoredDoc> tied_;      // scored at the k-th score but not in heap_
+  std::vector<DocId> seeded_;        // the first pass's heap and ties, by doc: not offered again
   std::uint64_t first_matched_ = 0;  // documents the first pass scored
   std::vector<double> key_;          // per part: its bound as a score, to order parts by
   bool full_ = false;               // heap holds k documents (pruning active)

@@ -11,7 +11,8 @@
 namespace lode::cli {
 
 std::string System::label() const {
-  return run_file.empty() ? index + ": " + describe(options) : "run " + run_file;
+  return run_file.empty() ? index + ": " + describe(options) + "; " + describe_reading(options.reading)
+                          : "run " + run_file;
 }
 
 Result<System> base_system(const EvalArgs& a, const Setup& setup) {
@@ -21,6 +22,7 @@ Result<System> base_system(const EvalArgs& a, const Setup& setup) {
   auto o = to_search_options(a.model);
   if (!o) return o.status();
   s.options = *o;
+  s.options.reading = a.query_syntax ? QueryReading::kSyntax : QueryReading::kPlain;
   return s;
 }
 
@@ -31,6 +33,7 @@ Result<System> derived_system(const EvalArgs& a, const Setup& setup, const std::
   add_model_options(parser, copy.model);
   parser.add_option("--index", index);
   parser.add_option("--run", run_file);
+  parser.add_flag("--query-syntax", copy.query_syntax);
   try {
     parser.parse(settings, false);
   } catch (const CLI::ParseError& e) {
@@ -125,6 +128,8 @@ Runner add_eval_command(CLI::App& app, const Setup& setup) {
       ->required();
   app.add_option("--queries", a->queries, "queries, 'id<TAB>text' per line or JSON Lines {id, text}")
       ->type_name("FILE");
+  app.add_flag("--query-syntax", a->query_syntax,
+               "read the judged queries as query syntax (\"phrases\", +required, -excluded); default: plain text");
   app.add_option("--run", a->run_file, "score this TREC run instead of searching the index")->type_name("FILE");
   app.add_option("--k", a->k, "cut-off for p@k, ndcg@k and the judged count (default 10)")
       ->check(CLI::Range(1, 100000));

@@ -1,4 +1,5 @@
 // `lode search`: one query (text or --json) or a batch file (TREC run out).
+#include <algorithm>
 #include <cstdio>
 #include <iostream>
 
@@ -17,6 +18,7 @@ struct SearchArgs {
   ModelArgs model;
   std::size_t top = 10, offset = 0;
   bool json = false, why = false, no_snippets = false, count_all = false;
+  bool query_syntax = false;  // --batch: parse the queries as query syntax (default: plain text)
   std::string batch, run_tag;
 };
 
@@ -49,10 +51,13 @@ void print_breakdown(const Hit& h, Model model) {
   std::printf("      %-18s %-5s %4s %6s %8s %6s %8s %9s %8s %6s %12s\n", "term", "field", "tf", "df", "idf", "len",
               "avg_len", model == Model::kBm25 ? "tf_part" : "doc_wt", "query_wt", "fw", "contribution");
   for (const TermContribution& c : h.breakdown)
-    std::printf("      %-18s %-5s %4u %6llu %8.4f %6u %8.2f %9.4f %8.4f %6.2f %12.6f\n", c.term.c_str(),
-                std::string(field_name(c.field)).c_str(), c.tf, static_cast<unsigned long long>(c.df), c.idf,
+    std::printf("      %-18s %-5s %4u %6llu %8.4f %6u %8.2f %9.4f %8.4f %6.2f %12.6f\n",
+                (c.proximity ? "~" + c.term : c.term).c_str(), std::string(field_name(c.field)).c_str(), c.tf, static_cast<unsigned long long>(c.df), c.idf,
                 c.doc_length, c.avg_length, c.tf_part, c.query_weight, c.field_weight, c.contribution);
   std::printf("      %-18s %87s %12.6f\n", "= score", "", h.score);
+  if (std::any_of(h.breakdown.begin(), h.breakdown.end(), [](const TermContribution& c) { return c.proximity; }))
+    std::printf("      (~word: the word's proximity part, BM25TP: idf = min(1, ln N/df), tf_part = saturated "
+                "nearness to other query words)\n");
 }
 
 int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, const SearchOptions& o) {
@@ -95,6 +100,9 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
   if (!app.count("--top")) o.top = 1000;  // the usual depth of a TREC run
   o.breakdown = false;
   o.snippets = false;
+  o.reading = a.query_syntax ? QueryReading::kSyntax : QueryReading::kPlain;
+  // A TREC run has no header line: say how the queries were read on stderr.
+  std::fprintf(stderr, "lode: %s, %s\n", describe(o).c_str(), describe_reading(o.reading).c_str());
   std::string tag = a.run_tag.empty() ? "lode-" + std::string(model_name(o.model)) : a.run_tag;
   for (const QueryLine& q : *queries) {
     auto results = searcher.search(q.text, o);
@@ -112,6 +120,8 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
 int run_search(const SearchArgs& a, const Setup& setup, CLI::App& app) {
   if (a.batch.empty() == a.query.empty())
     return fail(Status::InvalidArgument("give either a QUERY or --batch FILE"));
+  if (a.query_syntax && a.batch.empty())
+    return fail(Status::InvalidArgument("--query-syntax applies to --batch (a single QUERY is always parsed)"));
   auto opts = to_options(a);
   if (!opts) return fail(opts.status());
   auto reader = IndexReader::open(resolve_index(setup));
@@ -137,6 +147,8 @@ Runner add_search_command(CLI::App& app, const Setup& setup) {
                "count every matching document exactly (slower: scores them all instead of pruning)");
   app.add_option("--batch", a->batch, "queries file, one 'id<TAB>text' per line; prints a TREC run")
       ->type_name("FILE");
+  app.add_flag("--query-syntax", a->query_syntax,
+               "--batch: read the queries as query syntax (\"phrases\", +required, -excluded); default: plain text");
   app.add_option("--run-tag", a->run_tag, "last column of the TREC run (default lode-MODEL)");
   return [a, &setup, &app] { return run_search(*a, setup, app); };
 }

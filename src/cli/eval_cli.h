@@ -14,6 +14,7 @@ struct EvalArgs {
   std::string queries, judgments, run_file, save_run, run_tag = "lode";
   std::size_t k = EvalOptions{}.k, depth = EvalOptions{}.depth;
   bool json = false, per_query = false;
+  bool query_syntax = false;  // parse judged queries as query syntax (default: plain text, the TREC convention)
   ModelArgs model;
   // compare
   std::string metric = "map", baseline;

@@ -22,6 +22,7 @@ struct ModelArgs {
   std::size_t feedback_docs = SearchOptions{}.feedback.documents;
   std::size_t feedback_terms = SearchOptions{}.feedback.terms;
   double feedback_weight = SearchOptions{}.feedback.original_weight;
+  bool proximity = SearchOptions{}.proximity.enabled;
 };
 
 // Takes the config file's model and field weights as defaults (an option
@@ -34,5 +35,8 @@ void add_model_options(CLI::App& app, ModelArgs& args);
 Result<SearchOptions> to_search_options(const ModelArgs& args);
 // "bm25 k1=1.2 b=0.75 fields=joint title=1 body=1" (+ " feedback=10x10@0.5"), or the TF-IDF equivalent.
 std::string describe(const SearchOptions& o);
+// How queries were read, for run and report headers: "queries read as plain
+// text" or "queries parsed as query syntax".
+std::string describe_reading(QueryReading r);
 
 }  // namespace lode::cli

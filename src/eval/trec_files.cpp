@@ -94,9 +94,8 @@ Result<Run> parse_run(std::string_view text, std::string_view source) {
   });
   if (!s.ok()) return s;
   for (auto& [qid, entries] : run)
-    std::stable_sort(entries.begin(), entries.end(), [](const RunEntry& a, const RunEntry& b) {
-      return a.score != b.score ? a.score > b.score : a.docid > b.docid;
-    });
+    std::stable_sort(entries.begin(), entries.end(),
+                     [](const RunEntry& a, const RunEntry& b) { return a.score > b.score; });
   return run;
 }
 

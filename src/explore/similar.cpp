@@ -119,6 +119,7 @@ Result<SimilarResults> find_similar(VectorSource& src, const SparseVector& sourc
   auto found = top_k(cursors, model, o.candidates, false);
   if (!found) return found.status();
   std::vector<ScoredDoc>& pool = found->ranked;
+  if (pool.size() > o.candidates) pool.resize(o.candidates);  // candidates tied with the last one: as before
   out.candidates = pool.size();
   for (auto& c : pool) {
     auto v = src.document(c.doc);

@@ -17,6 +17,7 @@ nlohmann::json model_json(const SearchOptions& o) {
     m["b"] = o.bm25.b;
     m["fields"] = field_scoring_name(o.fields);
   } else {
+    m["fields"] = field_scoring_name(o.fields);
     m["weighting"] = o.smart.notation();
     m["log_base"] = o.smart.log_base;
   }
@@ -31,7 +32,7 @@ nlohmann::json hit_json(const Hit& hit, std::size_t rank, bool with_breakdown) {
                    {"kind", hit.kind},   {"path", hit.path},       {"score", hit.score}};
   if (with_breakdown) {
     nlohmann::json parts = nlohmann::json::array();
-    for (const TermContribution& c : hit.breakdown)
+    for (const TermContribution& c : hit.breakdown) {
       parts.push_back({{"term", c.term},
                        {"field", field_name(c.field)},
                        {"tf", c.tf},
@@ -43,6 +44,8 @@ nlohmann::json hit_json(const Hit& hit, std::size_t rank, bool with_breakdown) {
                        {"query_weight", c.query_weight},
                        {"field_weight", c.field_weight},
                        {"contribution", c.contribution}});
+      if (c.proximity) parts.back()["proximity"] = true;
+    }
     h["breakdown"] = parts;
   }
   h["snippet"] = {{"text", hit.snippet.text}, {"marks", marks_json(hit.snippet.marks)}};

@@ -62,9 +62,22 @@ std::vector<RawItem> split_items(std::string_view q) {
   return items;
 }
 
+// Plain reading: the whole text is one bare item, so the analyzer alone
+// decides what is a word and every word is ranked.
+std::vector<RawItem> plain_item(std::string_view q) {
+  RawItem item;
+  item.text = q;
+  item.typed = q;
+  return {item};
+}
+
 }  // namespace
 
-Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits) {
+std::string_view query_reading_name(QueryReading r) { return r == QueryReading::kPlain ? "plain" : "syntax"; }
+
+Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const QueryLimits& limits,
+                          QueryReading reading) {
+  const bool plain = reading == QueryReading::kPlain;
   if (text.size() > limits.max_bytes)
     return Status::Limit("query is " + std::to_string(text.size()) + " bytes; the limit is " +
                          std::to_string(limits.max_bytes));
@@ -72,7 +85,7 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
   Query query;
   std::size_t total_words = 0;
   std::string left_out;  // items without searchable words, reported in one note
-  for (const RawItem& item : split_items(text)) {
+  for (const RawItem& item : plain ? plain_item(text) : split_items(text)) {
     if (item.unclosed)
       query.warnings.push_back("unbalanced quote: the phrase " + std::string(item.typed) +
                                " runs to the end of the query");
@@ -80,7 +93,7 @@ Result<Query> parse_query(std::string_view text, Analyzer& analyzer, const Query
       query.warnings.push_back("'" + std::string(item.unknown_field) +
                                ":' is not a field (fields: title: body:; filters: " + query::kFilterNames +
                                "); '" + std::string(item.typed) + "' was searched as words");
-    if (!item.quoted && item.occur == Occur::kShould && !item.field) {
+    if (!plain && !item.quoted && item.occur == Occur::kShould && !item.field) {
       auto is_filter = query::apply_filter_item(item.text, query.filter, query.warnings);
       if (!is_filter) return is_filter.status();
       if (*is_filter) continue;

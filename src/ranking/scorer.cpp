@@ -7,7 +7,8 @@
 namespace lode::rank {
 
 Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms)
-    : reader_(reader), options_(options), terms_(terms), stats_(reader.stats()) {
+    : reader_(reader), options_(options), terms_(terms), stats_(reader.stats()), joint_(reader, options),
+      proximity_(reader, options, terms) {
   if (auto n = reader.norms(); n.ok()) norms_ = *n;
   else status_ = n.status();
   auto n = static_cast<double>(stats_.documents);
@@ -29,12 +30,22 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
     }
     if (options.fields == FieldScoring::kJoint) {
       group_scale_.assign(terms_.size(), 0.0);
-      for (std::size_t i = 0; i < terms_.size(); ++i)
+      group_extra_.assign(terms_.size(), 0.0);
+      for (std::size_t i = 0; i < terms_.size(); ++i) {
         group_scale_[terms_[i].group] = std::max(group_scale_[terms_[i].group], fast_[i].scale);
+        group_extra_[terms_[i].group] += proximity_.bound(i);
+      }
     }
     return;
   }
-  // TF-IDF: one query vector per field, normalised on its own.
+  if (joint_tfidf()) {
+    if (status_.ok()) status_ = weigh_joint_query();
+    group_scale_.assign(terms_.size(), 0.0);  // per group: the largest query weight
+    for (std::size_t i = 0; i < terms_.size(); ++i)
+      group_scale_[terms_[i].group] = std::max(group_scale_[terms_[i].group], terms_[i].query_weight);
+    return;
+  }
+  // TF-IDF, fields summed: one query vector per field, normalised on its own.
   const SmartWeighting& w = options.smart;
   for (Field f : kAllFields) {
     double max_qtf = 0, sum_qtf = 0, count = 0, length = 0;
@@ -59,6 +70,81 @@ Scorer::Scorer(IndexReader& reader, const SearchOptions& options, std::vector<Sc
       for (auto& t : terms_)
         if (t.field == f) t.query_weight /= std::sqrt(sum_sq);
   }
+}
+
+// Joint TF-IDF: one query vector over words. A word's qtf is its largest over
+// the fields it is searched in (a bare word counts once, not once per field),
+// its idf from the documents with it in any weighted field; every (term,
+// field) entry of the word carries the word's normalised weight.
+Status Scorer::weigh_joint_query() {
+  std::vector<std::string> words;
+  for (auto& t : terms_) {
+    auto it = std::find(words.begin(), words.end(), t.term);
+    t.group = static_cast<std::size_t>(it - words.begin());
+    if (it == words.end()) words.push_back(t.term);
+  }
+  const SmartWeighting& w = options_.smart;
+  const double n = static_cast<double>(stats_.documents);
+  std::vector<double> qtf(words.size(), 0), weight(words.size(), 0), idf(words.size(), 0);
+  std::vector<std::uint64_t> df(words.size(), 0);
+  for (std::size_t g = 0; g < words.size(); ++g) {
+    std::optional<TermInfo> title, body;
+    for (auto& t : terms_)
+      if (t.group == g) {
+        qtf[g] = std::max(qtf[g], t.qtf);
+        if (t.info) (t.field == Field::kTitle ? title : body) = t.info;
+      }
+    auto d = joint_.word_df(title, body);
+    if (!d) return d.status();
+    df[g] = *d;
+  }
+  double max_qtf = 0, sum_qtf = 0;
+  for (double q : qtf) max_qtf = std::max(max_qtf, q), sum_qtf += q;
+  const double avg_qtf = words.empty() ? 0 : sum_qtf / static_cast<double>(words.size());
+  double sum_sq = 0;
+  for (std::size_t g = 0; g < words.size(); ++g) {
+    idf[g] = smart_idf(w.query_idf, n, static_cast<double>(df[g]), w.log_base);
+    weight[g] = df[g] > 0 ? smart_tf(w.query_tf, qtf[g], max_qtf, avg_qtf, sum_qtf, w.log_base) * idf[g] : 0;
+    sum_sq += weight[g] * weight[g];
+  }
+  if (w.query_norm == 'c' && sum_sq > 0)
+    for (double& x : weight) x /= std::sqrt(sum_sq);
+  group_x_.assign(words.size(), 0);
+  for (auto& t : terms_) {
+    t.df = df[t.group];
+    t.idf = idf[t.group];
+    t.query_weight = weight[t.group];
+  }
+  return Status();
+}
+
+// Joint TF-IDF: the word's document weight smart_tf(x) * idf / norm, with
+// x = sum of w_f * tf_f; entry (t, f) gets the share w_f * tf_f / x of it.
+Result<double> Scorer::score_joint_tfidf(DocId doc, const std::vector<std::uint32_t>& tfs,
+                                         std::vector<TermContribution>* out) {
+  auto vec = joint_.stats(doc, *norms_);
+  if (!vec) return vec.status();
+  const SmartWeighting& w = options_.smart;
+  const double n = static_cast<double>(stats_.documents);
+  std::fill(group_x_.begin(), group_x_.end(), 0.0);
+  for (std::size_t i = 0; i < terms_.size(); ++i)
+    if (tfs[i] > 0) group_x_[terms_[i].group] += options_.field_weight[static_cast<std::size_t>(terms_[i].field)] * tfs[i];
+  double total = 0;
+  for (std::size_t i = 0; i < terms_.size(); ++i) {
+    if (tfs[i] == 0) continue;
+    const ScoringTerm& t = terms_[i];
+    const double fw = options_.field_weight[static_cast<std::size_t>(t.field)];
+    const double x = group_x_[t.group];
+    const double doc_idf = smart_idf(w.doc_idf, n, static_cast<double>(t.df), w.log_base);
+    const double weight = smart_tf(w.doc_tf, x, vec->max_tf, vec->avg_tf, vec->length, w.log_base) * doc_idf / vec->norm;
+    const double tf_part = tfs[i] / x * weight;
+    const double contribution = fw * t.query_weight * tf_part;
+    total += contribution;
+    if (out)
+      out->push_back(TermContribution{t.term, t.field, tfs[i], t.df, t.idf, norms_->length(doc, t.field),
+                                      stats_.average_length(t.field), tf_part, t.query_weight, fw, contribution});
+  }
+  return total;
 }
 
 // Terms of one word in several fields form a group; its df counts the live
@@ -151,9 +237,16 @@ double Scorer::cosine_share_bound(double tf, double length) const {
   return a / std::sqrt(a * a + b * b);
 }
 
+// A term's bound plus, for a body term present in a document, the bound of
+// its proximity part (independent of tf and length).
+double Scorer::bound(std::size_t i, double tf, double length) const {
+  const double b = term_part_bound(i, tf, length);
+  return tf > 0 && terms_[i].info ? b + proximity_.bound(i) : b;
+}
+
 // Every bound is monotone: up in tf, down in length; a field holding a term
 // tf times is at least tf long, which keeps the bounds finite.
-double Scorer::bound(std::size_t i, double tf, double length) const {
+double Scorer::term_part_bound(std::size_t i, double tf, double length) const {
   const ScoringTerm& t = terms_[i];
   if (!t.info || tf <= 0) return 0;
   length = std::max(length, tf);
@@ -177,22 +270,30 @@ double Scorer::bound(std::size_t i, double tf, double length) const {
     const double x = fw * tf / bm25_length_norm(length, avg, options_.bm25.b);
     return x > 0 ? t.query_weight * t.idf * saturate(x, options_.bm25.k1) : 0;
   }
-  // A cosine-normalised weight is a unit vector's component: at most 1.
   const SmartWeighting& w = options_.smart;
+  // Joint TF-IDF: an entry is w_f * tf_f / x (<= 1) of its word's q * weight,
+  // and a cosine-normalised weight is at most 1. Other document norms have no
+  // bound from one field's tf: no pruning (still exact).
+  if (joint_tfidf())
+    return w.doc_norm == 'c' ? t.query_weight : std::numeric_limits<double>::infinity();
+  // A cosine-normalised weight is a unit vector's component: at most 1.
   if (w.doc_norm == 'c') return fw * t.query_weight * cosine_share_bound(tf, length);
   const double doc_idf = smart_idf(w.doc_idf, static_cast<double>(stats_.documents), static_cast<double>(t.df), w.log_base);
   return fw * t.query_weight * smart_tf_bound(w.doc_tf, tf, length, w.log_base) * doc_idf;
 }
 
 std::size_t Scorer::group(std::size_t i) const {
-  return options_.model == Model::kBm25 && options_.fields == FieldScoring::kJoint ? terms_[i].group : i;
+  return options_.fields == FieldScoring::kJoint ? terms_[i].group : i;
 }
 
 bool Scorer::joint() const { return !fast_.empty() && options_.fields == FieldScoring::kJoint; }
 
+// Joint BM25: w*tf/B. Joint TF-IDF: presence (the word's share of its
+// cosine-normalised weight is bounded whatever its tf). Otherwise the bound.
 double Scorer::member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const {
-  if (!joint()) return bound(i, tf, length);
+  if (!joint() && !joint_tfidf()) return bound(i, tf, length);
   if (!terms_[i].info || tf == 0) return 0;
+  if (joint_tfidf()) return 1.0;
   const FastBound& f = fast_[i];
   const double len = std::max<double>(length, tf);  // a field holding tf words is at least tf long
   return f.fw * tf / (f.one_minus_b + f.b_over_avg * len);
@@ -202,9 +303,15 @@ double Scorer::doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const {
   return member_raw(i, tf, norms_->length(doc, terms_[i].field));
 }
 
+// Joint BM25: max qtf*idf*sat(x), plus the members' proximity parts. Joint
+// TF-IDF: a word's entries share one weight of at most its query weight q
+// when documents are cosine-normalised, and have no bound otherwise.
 double Scorer::group_bound(std::size_t g, double raw) const {
-  if (!joint()) return raw;
-  return raw > 0 ? group_scale_[g] * raw / (raw + options_.bm25.k1) : 0;
+  if (!joint() && !joint_tfidf()) return raw;
+  if (raw <= 0) return 0;
+  if (joint_tfidf())
+    return options_.smart.doc_norm == 'c' ? group_scale_[g] : std::numeric_limits<double>::infinity();
+  return group_scale_[g] * raw / (raw + options_.bm25.k1) + group_extra_[g];
 }
 
 double Scorer::term_bound(std::size_t i) const {
@@ -259,8 +366,18 @@ Result<Scorer::DocVector> Scorer::doc_vector(DocId doc, Field field) {
 
 Result<double> Scorer::score(DocId doc, const std::vector<std::uint32_t>& tfs,
                              std::vector<TermContribution>* out) {
+  auto total = score_terms(doc, tfs, out);
+  if (!total || !proximity_.enabled()) return total;
+  double sum = *total;
+  LODE_RETURN_IF_ERROR(proximity_.add(doc, tfs, *norms_, sum, out));
+  return sum;
+}
+
+Result<double> Scorer::score_terms(DocId doc, const std::vector<std::uint32_t>& tfs,
+                                   std::vector<TermContribution>* out) {
   LODE_RETURN_IF_ERROR(status_);
   if (options_.model == Model::kBm25 && options_.fields == FieldScoring::kJoint) return score_joint(doc, tfs, out);
+  if (joint_tfidf()) return score_joint_tfidf(doc, tfs, out);
   double total = 0;
   std::optional<DocVector> vec[kFieldCount];
   const bool bm25 = options_.model == Model::kBm25;

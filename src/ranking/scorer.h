@@ -9,6 +9,8 @@
 
 #include "lode/index.h"
 #include "lode/ranking.h"
+#include "ranking/joint_vector.h"
+#include "ranking/proximity.h"
 
 namespace lode::rank {
 
@@ -18,7 +20,7 @@ struct ScoringTerm {
   std::optional<TermInfo> info;  // nullopt: not in the index
   double qtf = 0;                // occurrences in the query
   std::uint64_t df = 0;          // df behind idf: the field's; joint BM25: documents with the term in any field
-  std::size_t group = 0;         // joint BM25: index of the term's group (same word, any field)
+  std::size_t group = 0;         // joint fields: index of the term's group (same word, any field)
   double idf = 0;                // BM25 idf, or the query-side SMART idf
   double query_weight = 0;       // BM25: qtf; TF-IDF: normalised query weight
 };
@@ -30,7 +32,8 @@ class Scorer {
   Scorer(IndexReader& reader, const SearchOptions& options, std::vector<ScoringTerm>& terms);
 
   // Score of `doc` where tfs[i] is the tf of terms[i] in it (0 = absent).
-  // When `out` is given, appends one entry per term with tf > 0, in term order.
+  // When `out` is given, appends one entry per term with tf > 0, in term
+  // order, then the proximity rows (ranking/proximity.h) when it is on.
   Result<double> score(DocId doc, const std::vector<std::uint32_t>& tfs,
                        std::vector<TermContribution>* out);
 
@@ -40,10 +43,13 @@ class Scorer {
   double term_bound(std::size_t i) const;
   double block_bound(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
   double doc_bound(std::size_t i, std::uint32_t tf, DocId doc) const;
-  // Groups for lode/topk.h: joint BM25 groups a word's fields, which share
-  // one saturation: a member's raw amount is its w*tf/B, and a group's total
-  // is at most max qtf * idf * sat(x) for x the sum of its members' amounts.
-  // Other models leave every term alone (raw amount = bound, identity).
+  // Groups for lode/topk.h: joint fields group a word's entries. Joint BM25:
+  // they share one saturation, a member's raw amount is its w*tf/B, and a
+  // group's total is at most max qtf * idf * sat(x) for x the sum of its
+  // members' amounts, plus their proximity parts. Joint TF-IDF: a member's
+  // raw amount is its presence, and a group's total is at most its query
+  // weight (cosine-normalised documents). Summed fields leave every term
+  // alone (raw amount = bound, identity).
   std::size_t group(std::size_t i) const;
   double member_raw(std::size_t i, std::uint32_t tf, std::uint32_t length) const;
   double doc_raw(std::size_t i, std::uint32_t tf, DocId doc) const;
@@ -54,6 +60,10 @@ class Scorer {
     double norm = 1, max_tf = 0, avg_tf = 0;
   };
   Result<DocVector> doc_vector(DocId doc, Field field);
+  // score() without the proximity parts.
+  Result<double> score_terms(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
+  // bound() without the proximity part.
+  double term_part_bound(std::size_t i, double tf, double length) const;
   Result<std::uint64_t> df_of(TermId id);
   // Joint BM25: groups terms by word and gives each group its any-field df.
   Status group_fields();
@@ -64,6 +74,12 @@ class Scorer {
   // Bound of a cosine-normalised document weight (<= 1) for those tf and length.
   double cosine_share_bound(double tf, double length) const;
   double score_joint(DocId doc, const std::vector<std::uint32_t>& tfs, std::vector<TermContribution>* out);
+  // TF-IDF over one joint vector (ranking/joint_vector.h): the query vector
+  // per word, and a document's score split over its (term, field) entries.
+  Status weigh_joint_query();
+  Result<double> score_joint_tfidf(DocId doc, const std::vector<std::uint32_t>& tfs,
+                                   std::vector<TermContribution>* out);
+  bool joint_tfidf() const { return options_.model == Model::kTfIdf && options_.fields == FieldScoring::kJoint; }
 
   IndexReader& reader_;
   const SearchOptions& options_;
@@ -79,8 +95,11 @@ class Scorer {
   std::unordered_map<TermId, std::uint64_t> df_cache_;
   Status status_;                       // from the constructor (group_fields); score() returns it
   std::vector<double> group_x_;         // joint BM25 scratch: x per group
-  std::vector<double> group_scale_;     // joint BM25: per group, max qtf * idf * (k1 + 1)
+  std::vector<double> group_scale_;     // per group: joint BM25 max qtf * idf * (k1 + 1); joint TF-IDF max q
+  std::vector<double> group_extra_;     // joint BM25: per group, its members' proximity bounds
   std::vector<double> term_norm_;       // joint BM25 scratch: tf / B per term
+  JointVectors joint_;                  // joint TF-IDF: document vectors
+  Proximity proximity_;                 // BM25TP parts (off unless asked for)
 };
 
 }  // namespace lode::rank

@@ -12,6 +12,7 @@
 #include "ranking/pages.h"
 #include "ranking/scorer.h"
 #include "ranking/snippet.h"
+#include "ranking/tie_order.h"
 
 namespace lode {
 struct Searcher::Impl {
@@ -27,7 +28,8 @@ struct Searcher::Impl {
   Result<Plan> plan(std::string_view text, const SearchOptions& options);
   // (Re)creates the plan's clause matchers; their cursors only move forward, so each pass needs new ones.
   Status make_matchers(Plan& plan);
-  // The best `keep` live matches of the plan, best first, pruned unless count_all (lode/topk.h).
+  // The best `keep` live matches of the plan, best first, ties by the id users
+  // see (ranking/tie_order.h), pruned unless count_all (lode/topk.h).
   Result<TopKResult> retrieve(Plan& plan, rank::Scorer& scorer, std::size_t keep, bool count_all);
   // Pseudo-relevance feedback: a first pass over the plan, then RM3 rewrites its terms.
   Status expand(Plan& plan, const SearchOptions& options);
@@ -47,6 +49,8 @@ Status check_options(const SearchOptions& o) {
   if (!(o.smart.log_base > 1)) return Status::InvalidArgument("log base must be greater than 1");
   if (o.feedback.documents > 0 && o.model != Model::kBm25)
     return Status::InvalidArgument("feedback applies to the bm25 model only");
+  if (o.proximity.enabled && o.model != Model::kBm25)
+    return Status::InvalidArgument("proximity applies to the bm25 model only");
   if (!(o.feedback.original_weight >= 0 && o.feedback.original_weight <= 1))
     return Status::InvalidArgument("feedback original-query weight must be between 0 and 1");
   return Status();
@@ -57,7 +61,7 @@ Status check_options(const SearchOptions& o) {
 Result<Searcher::Impl::Plan> Searcher::Impl::plan(std::string_view text, const SearchOptions& options) {
   LODE_RETURN_IF_ERROR(check_options(options));
   Plan p;
-  auto q = parse_query(text, *analyzer, options.limits);
+  auto q = parse_query(text, *analyzer, options.limits, options.reading);
   if (!q) return q.status();
   p.query = std::move(q.value());
   std::map<std::pair<Field, std::string>, double> qtf;  // ordered: deterministic term order
@@ -247,8 +251,11 @@ Result<TopKResult> Searcher::Impl::retrieve(Plan& plan, rank::Scorer& scorer, st
       }
   }
   PlanModel model(**norms, scorer, plan.allowed, plan.required, plan.excluded, [&] { return make_matchers(plan); });
-  return top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all,
-                    std::span<const TierCursor>(tiers));
+  auto top = top_k_walk(std::span<PostingCursor* const>(cursors), model, keep, count_all,
+                        std::span<const TierCursor>(tiers));
+  if (!top) return top.status();
+  LODE_RETURN_IF_ERROR(rank::order_by_visible_id(reader, top->ranked, keep));
+  return top;
 }
 
 Status Searcher::Impl::expand(Plan& plan, const SearchOptions& options) {

@@ -129,7 +129,6 @@ Parsed<SearchRequest> parse_search(const Params& p, const ServeLimits& limits, b
   if (std::string f = get(p, "fields"); !f.empty()) {
     auto fs = parse_field_scoring(f);
     if (!fs) return bad_parameter("fields", "fields must be joint or sum, not '" + f + "'");
-    if (o.model != Model::kBm25) return bad_parameter("fields", "fields applies to model bm25");
     o.fields = *fs;
   }
   if (std::string w = get(p, "weighting"); !w.empty()) {

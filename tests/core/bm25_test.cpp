@@ -58,9 +58,11 @@ TEST_CASE("breakdown contributions sum to the score and carry the statistics") {
   REQUIRE(reader.ok());
   auto searcher = Searcher::create(**reader);
   REQUIRE(searcher.ok());
+  for (FieldScoring fields : {FieldScoring::kJoint, FieldScoring::kSum})
   for (Model m : {Model::kBm25, Model::kTfIdf}) {
     SearchOptions o;
     o.model = m;
+    o.fields = fields;
     auto r = (*searcher)->search("storm kelp night", o);
     REQUIRE(r.ok());
     REQUIRE(r->hits.size() == 3);
@@ -79,9 +81,10 @@ TEST_CASE("breakdown contributions sum to the score and carry the statistics") {
       if (c.field == Field::kTitle && c.term == "storm") {
         saw_title = true;
         CHECK(c.tf == 1);
-        // BM25 (joint fields by default) counts documents with "storm" in any
-        // field (d1, d2); TF-IDF scores each field alone (title: d1 only).
-        CHECK(c.df == (m == Model::kBm25 ? 2u : 1u));
+        // Joint fields (the default, BM25F or one TF-IDF vector) count
+        // documents with "storm" in any field (d1, d2); summed fields score
+        // each field alone (title: d1 only).
+        CHECK(c.df == (fields == FieldScoring::kJoint ? 2u : 1u));
         CHECK(c.doc_length == 2);
       }
     CHECK(saw_title);

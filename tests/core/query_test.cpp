@@ -49,6 +49,45 @@ TEST_CASE("query operators select the documents they promise") {
   CHECK(res->matched == 3);
 }
 
+TEST_CASE("plain reading ranks every word of the text and applies no syntax") {
+  TempDir dir;
+  std::string index = dir.str("p.sqlite");
+  build_index(index, {
+                         {"Fog horn", "the fog horn sounded all night over the quay"},       // d1
+                         {"Horn repairs", "new reed for the horn; fog cleared by noon"},     // d2
+                         {"Draft letter", "draft: the storm and the fog horn"},              // d3
+                         {"Tide table", "high water at the quay, a draft of three metres"},  // d4
+                     });
+  auto r = IndexReader::open(index);
+  REQUIRE(r.ok());
+  SearchOptions plain;
+  plain.reading = QueryReading::kPlain;
+  auto scores = [&](const std::string& q, const SearchOptions& o) { return scores_of(**r, q, o); };
+  // An unbalanced quote: as syntax the rest is one phrase that every match
+  // must contain ("horn quay" occurs nowhere, so nothing matches); as plain
+  // text the words rank on their own, exactly as if the quote were not there.
+  CHECK(scores("fog \"horn quay", {}).empty());
+  CHECK(scores("fog \"horn quay", plain) == scores("fog horn quay", plain));
+  CHECK(scores("fog \"horn quay", plain).size() == 4);
+  // A leading dash excludes as syntax, is a word as plain text.
+  CHECK(scores("quay -draft", {}) == std::map<std::string, double>{{"d1", scores("quay", {}).at("d1")}});
+  CHECK(scores("quay -draft", plain) == scores("quay draft", {}));
+  // + and field:/filter prefixes are no syntax either: the same ranking as the bare words.
+  CHECK(scores("+storm title:fog", plain) == scores("storm title fog", {}));
+  CHECK(scores("@kind:pdf fog", plain) == scores("kind pdf fog", {}));
+  auto q = Analyzer::create({});
+  REQUIRE(q.ok());
+  auto parsed = parse_query("+a \"fog horn -draft", **q, {}, QueryReading::kPlain);
+  REQUIRE(parsed.ok());
+  for (const Clause& c : parsed->clauses) {
+    CHECK(c.occur == Occur::kShould);
+    CHECK(!c.phrase);
+    CHECK(!c.field);
+  }
+  CHECK(parsed->clauses.size() == 3);  // fog horn draft ("a" is a stopword)
+  CHECK(query_reading_name(QueryReading::kPlain) == "plain");
+}
+
 TEST_CASE("query limits and bad input give clear errors") {
   TempDir dir;
   std::string index = dir.str("q.sqlite");

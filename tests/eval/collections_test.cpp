@@ -37,7 +37,9 @@ void check_collection(const Expected& e) {
   REQUIRE(reader.ok());
   auto searcher = Searcher::create(**reader);
   REQUIRE(searcher.ok());
-  auto run = run_queries(**searcher, *queries, SearchOptions{});
+  SearchOptions defaults;
+  defaults.reading = QueryReading::kPlain;  // judged queries are read as written (the TREC convention)
+  auto run = run_queries(**searcher, *queries, defaults);
   REQUIRE_MESSAGE(run.ok(), run.status().to_string());
   Evaluation ev = evaluate(*run, *qrels);
   CHECK(ev.per_query.size() == e.judged);

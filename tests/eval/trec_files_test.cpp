@@ -5,13 +5,16 @@
 
 using namespace lode;
 
-TEST_CASE("runs: ordered by score then docid descending / duplicates and bad scores refused with the line") {
+TEST_CASE("runs: ordered by score, ties in the run's order / duplicates and bad scores refused with the line") {
   auto run = parse_run("q1 Q0 a 1 2.5 t\nq1 Q0 b 2 3.0 t\nq1 Q0 c 3 2.5 t\n\nq2 Q0 z 1 1 t\n", "r.txt");
   REQUIRE(run.ok());
   REQUIRE((*run)["q1"].size() == 3);
   CHECK((*run)["q1"][0].docid == "b");
-  CHECK((*run)["q1"][1].docid == "c");  // tie at 2.5: docid descending
-  CHECK((*run)["q1"][2].docid == "a");
+  CHECK((*run)["q1"][1].docid == "a");  // tie at 2.5: the order of the file
+  CHECK((*run)["q1"][2].docid == "c");
+  auto reversed = parse_run("q1 Q0 c 1 2.5 t\nq1 Q0 a 2 2.5 t\n", "r.txt");
+  REQUIRE(reversed.ok());
+  CHECK((*reversed)["q1"][0].docid == "c");
   auto dup = parse_run("q1 Q0 a 1 2 t\nq1 Q0 a 2 1 t\n", "r.txt");
   REQUIRE(!dup.ok());
   CHECK(dup.status().message().find("r.txt:2:") == 0);
