@@ -16,6 +16,7 @@ enum Exit : int {
   kExitError = 1,        // the command failed (message on stderr)
   kExitUsage = 2,        // bad command line
   kExitSomeFailed = 3,   // index: finished, but some files could not be read
+  kExitDamaged = 4,      // verify: the index is damaged (findings on stdout)
 };
 
 // What every command starts from: the global --index and the user's

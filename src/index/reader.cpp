@@ -179,19 +179,11 @@ IndexReader::~IndexReader() {
 }
 
 Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path, const ReaderOptions& options) {
-  std::error_code ec;
-  if (!std::filesystem::exists(path, ec))
-    return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
+  auto db = schema::open_for_reading(path);
+  if (!db) return db.status();
   auto impl = std::make_unique<Impl>();
   impl->cache = options.cache ? options.cache : std::make_shared<ReaderCache>();
-  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
-  if (!db) {
-    db = sql::Db::open(path, SQLITE_OPEN_READONLY);
-    if (!db) return db.status();
-  }
   impl->db = std::move(db.value());
-  LODE_RETURN_IF_ERROR(schema::configure(impl->db, false));
-  LODE_RETURN_IF_ERROR(impl->db.exec("PRAGMA query_only=1"));
   auto have = schema::exists(impl->db);
   if (!have) return have.status();
   if (!*have) return Status::Corruption(path + ": not a lode index");

@@ -168,6 +168,20 @@ Status configure(sql::Db& db, bool writer) {
   return db.exec("PRAGMA temp_store=MEMORY");
 }
 
+Result<sql::Db> open_for_reading(const std::string& path) {
+  std::error_code ec;
+  if (!std::filesystem::exists(path, ec))
+    return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
+  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
+  if (!db) {
+    db = sql::Db::open(path, SQLITE_OPEN_READONLY);
+    if (!db) return db.status();
+  }
+  LODE_RETURN_IF_ERROR(configure(*db, false));
+  LODE_RETURN_IF_ERROR(db->exec("PRAGMA query_only=1"));
+  return db;
+}
+
 Result<std::vector<RecordedProblem>> load_problems(sql::Db& db) {
   auto q = db.prepare("SELECT path, error, message, time_ns FROM problems ORDER BY path, rowid");
   if (!q) return q.status();

@@ -27,6 +27,11 @@ struct Counters {
 Result<Counters> load_counters(sql::Db& db);
 Status store_counters(sql::Db& db, const Counters& c);
 
+// Opens an existing index to read it, never to write: NotFound (naming how
+// to create one) when there is no file at `path`, IOError when SQLite
+// cannot open it. Nothing is read yet, so a damaged file opens.
+Result<sql::Db> open_for_reading(const std::string& path);
+
 // Applies the pragmas every connection uses (WAL, foreign-free, page cache).
 Status configure(sql::Db& db, bool writer);
 

@@ -2,8 +2,11 @@
 // it, one-call indexing and searching.
 #pragma once
 
+#include <sys/wait.h>
+
 #include <doctest/doctest.h>
 
+#include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <memory>
@@ -52,6 +55,20 @@ class Scratch {
  private:
   fs::path root_;
 };
+
+// Runs the real `lode ARGS` (stderr joined to stdout), returns its output;
+// the exit code in *rc (-1 when killed by a signal).
+inline std::string lode_run(const std::string& args, int* rc) {
+  std::string out;
+  FILE* p = popen((std::string(LODE_BINARY) + " " + args + " 2>&1").c_str(), "r");
+  REQUIRE(p != nullptr);
+  char buf[4096];
+  std::size_t n;
+  while ((n = fread(buf, 1, sizeof buf, p)) > 0) out.append(buf, n);
+  const int status = pclose(p);
+  *rc = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  return out;
+}
 
 inline IndexReport index_tree(const std::string& index, const std::vector<std::string>& roots,
                               IndexRunOptions options = {}) {
