@@ -44,12 +44,12 @@ std::string_view Stmt::blob(int col) const {
   return p ? std::string_view(p, static_cast<std::size_t>(n)) : std::string_view();
 }
 
-Result<Db> Db::open(const std::string& path, int flags) {
+Result<Db> Db::open(const std::string& path, int flags, const std::string& uri) {
   Db db;
   db.path_ = path;
   // No per-connection mutex: a connection serves one thread at a time
   // (lode/index.h), and the lock around every call cost ~6% of indexing.
-  int rc = sqlite3_open_v2(path.c_str(), &db.db_, flags | SQLITE_OPEN_NOMUTEX, nullptr);
+  int rc = sqlite3_open_v2(uri.empty() ? path.c_str() : uri.c_str(), &db.db_, flags | SQLITE_OPEN_NOMUTEX, nullptr);
   if (rc != SQLITE_OK) return db.error(rc, "cannot open");
   sqlite3_busy_timeout(db.db_, 5000);
   sqlite3_extended_result_codes(db.db_, 1);

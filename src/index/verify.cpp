@@ -327,11 +327,14 @@ class Check final : public PositionSource {
 }  // namespace
 
 Result<VerifyReport> verify_index(const std::string& path, const VerifyOptions& options) {
-  auto db = schema::open_for_reading(path);
-  if (!db) return db.status();
   VerifyReport report;
-  // One read transaction: every table is seen as of one commit. A file
-  // SQLite cannot read fails here already: that is damage, a finding.
+  auto db = schema::open_for_reading(path);
+  if (!db && db.status().code() == Code::kCorruption) {  // not a database, or its first pages damaged
+    report.findings.push_back("SQLite: " + db.status().message());
+    return report;
+  }
+  if (!db) return db.status();
+  // One read transaction: every table is seen as of one commit.
   if (Status s = db->exec("BEGIN"); !s.ok()) {
     report.findings.push_back("SQLite: " + s.message());
     return report;

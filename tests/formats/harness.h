@@ -56,11 +56,12 @@ class Scratch {
   fs::path root_;
 };
 
-// Runs the real `lode ARGS` (stderr joined to stdout), returns its output;
-// the exit code in *rc (-1 when killed by a signal).
-inline std::string lode_run(const std::string& args, int* rc) {
+// Runs the real `lode ARGS` (stderr joined to stdout), started through
+// `prefix` if given (a command that runs its arguments), returns its
+// output; the exit code in *rc (-1 when killed by a signal).
+inline std::string lode_run(const std::string& args, int* rc, const std::string& prefix = "") {
   std::string out;
-  FILE* p = popen((std::string(LODE_BINARY) + " " + args + " 2>&1").c_str(), "r");
+  FILE* p = popen((prefix + std::string(LODE_BINARY) + " " + args + " 2>&1").c_str(), "r");
   REQUIRE(p != nullptr);
   char buf[4096];
   std::size_t n;
