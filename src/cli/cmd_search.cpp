@@ -6,6 +6,7 @@
 #include "cli/common.h"
 #include "cli/model_options.h"
 #include "lode/eval.h"
+#include "lode/json_text.h"
 #include "lode/present.h"
 #include "lode/ranking.h"
 
@@ -65,7 +66,7 @@ int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, con
     if (!words) return fail(words.status());
     nlohmann::json out = results_json(a.query, *results, o);
     out["words"] = *words;
-    std::cout << out.dump(2) << "\n";
+    std::cout << dump_json(out, 2) << "\n";
     return kExitOk;
   }
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
@@ -81,8 +82,8 @@ int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, con
                 static_cast<unsigned long long>(results->matched), describe(o).c_str(), o.offset + o.top);
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
     const Hit& h = results->hits[i];
-    std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());
-    std::printf("      %s  [%s]\n", h.external_id.c_str(), h.kind.c_str());
+    std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : shown(h.title).c_str());
+    std::printf("      %s  [%s]\n", shown(h.external_id).c_str(), h.kind.c_str());
     if (!h.snippet.text.empty()) std::printf("      %s\n", marked(h.snippet, tty).c_str());
     if (a.why) print_breakdown(h, o.model);
   }

@@ -10,6 +10,7 @@
 #include "index/schema.h"
 #include "index/sqlite.h"
 #include "lode/index.h"
+#include "lode/names.h"
 
 namespace lode {
 
@@ -362,10 +363,18 @@ Result<DocumentInfo> IndexReader::document(DocId doc) {
 
 Result<DocId> IndexReader::find_external(std::string_view external_id) {
   auto& q = impl_->q_external;
-  q.bind(1, external_id);
-  auto row = sql::one_row(q, "no document with id '" + std::string(external_id) + "'");
-  if (!row) return row.status();
-  return static_cast<DocId>(q.i64(0));
+  auto lookup = [&](std::string_view id) -> Result<DocId> {
+    q.bind(1, id);
+    auto row = sql::one_row(q, "no document with id '" + escape_name(external_id) + "'");
+    if (!row) return row.status();
+    return static_cast<DocId>(q.i64(0));
+  };
+  auto found = lookup(external_id);
+  // An id printed as JSON holds the byte escape of lode/names.h where its
+  // file name is not UTF-8: given back, it names the file's real bytes.
+  if (found.status().code() == Code::kNotFound && holds_escaped_byte(external_id))
+    return lookup(unescape_name(external_id));
+  return found;
 }
 
 Result<std::string> IndexReader::stored_text(DocId doc, Field field) {

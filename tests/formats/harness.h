@@ -56,12 +56,11 @@ class Scratch {
   fs::path root_;
 };
 
-// Runs the real `lode ARGS` (stderr joined to stdout), started through
-// `prefix` if given (a command that runs its arguments), returns its
-// output; the exit code in *rc (-1 when killed by a signal).
-inline std::string lode_run(const std::string& args, int* rc, const std::string& prefix = "") {
+// Runs `cmd` with /bin/sh, returns its stdout; the exit code in *rc (-1
+// when killed by a signal).
+inline std::string shell_output(const std::string& cmd, int* rc) {
   std::string out;
-  FILE* p = popen((prefix + std::string(LODE_BINARY) + " " + args + " 2>&1").c_str(), "r");
+  FILE* p = popen(cmd.c_str(), "r");
   REQUIRE(p != nullptr);
   char buf[4096];
   std::size_t n;
@@ -69,6 +68,12 @@ inline std::string lode_run(const std::string& args, int* rc, const std::string&
   const int status = pclose(p);
   *rc = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
   return out;
+}
+
+// Runs the real `lode ARGS` (stderr joined to stdout), started through
+// `prefix` if given (a command that runs its arguments).
+inline std::string lode_run(const std::string& args, int* rc, const std::string& prefix = "") {
+  return shell_output(prefix + std::string(LODE_BINARY) + " " + args + " 2>&1", rc);
 }
 
 inline IndexReport index_tree(const std::string& index, const std::vector<std::string>& roots,
