@@ -1,6 +1,17 @@
 #include "index/sqlite.h"
 
 namespace lode::sql {
+namespace {
+
+// SQLite's result code as a Status: Busy, Corruption (damaged or not a
+// database: `lode verify` says more), else IOError.
+Status classify(int rc, std::string msg) {
+  if ((rc & 0xff) == SQLITE_BUSY) return Status::Busy(std::move(msg));
+  if ((rc & 0xff) == SQLITE_CORRUPT || (rc & 0xff) == SQLITE_NOTADB) return Status::Corruption(std::move(msg));
+  return Status::IOError(std::move(msg));
+}
+
+}  // namespace
 
 Stmt& Stmt::operator=(Stmt&& o) noexcept {
   if (this != &o) {
@@ -62,8 +73,7 @@ Status Db::exec(const std::string& sql) {
   if (rc != SQLITE_OK) {
     std::string msg = err ? err : sqlite3_errstr(rc);
     sqlite3_free(err);
-    return (rc & 0xff) == SQLITE_BUSY ? Status::Busy(path_ + ": " + msg)
-                                      : Status::IOError(path_ + ": " + msg);
+    return classify(rc, path_ + ": " + msg);
   }
   return Status();
 }
@@ -92,11 +102,7 @@ Row one_row(Stmt& s, std::string_view missing) {
 }
 
 Status Db::error(int rc, std::string_view what) const {
-  std::string msg = path_ + ": " + std::string(what) + ": " +
-                    (db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc));
-  if ((rc & 0xff) == SQLITE_BUSY) return Status::Busy(msg);
-  if ((rc & 0xff) == SQLITE_CORRUPT || (rc & 0xff) == SQLITE_NOTADB) return Status::Corruption(msg);
-  return Status::IOError(msg);
+  return classify(rc, path_ + ": " + std::string(what) + ": " + (db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc)));
 }
 
 }  // namespace lode::sql

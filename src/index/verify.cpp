@@ -3,6 +3,7 @@
 // through the readers' own decoders (PostingList, PostingCursor, codec::).
 #include "lode/verify.h"
 
+#include <algorithm>
 #include <filesystem>
 #include <unordered_map>
 #include <unordered_set>
@@ -178,11 +179,12 @@ class Check final : public PositionSource {
       const TermId id = q.i64(0);
       const std::int64_t field = q.i64(1), df = q.i64(3), cf = q.i64(4);
       if (field < 0 || field >= kFieldCount) return found("terms: term " + std::to_string(id) + " has field " + std::to_string(field));
-      if (df < 0 || cf < df) return found("terms: term " + std::to_string(id) + " has df " + std::to_string(df) + ", cf " + std::to_string(cf));
-      terms_.emplace(id, Term{static_cast<int>(field), std::string(q.text(2)), static_cast<std::uint64_t>(df),
-                              static_cast<std::uint64_t>(cf)});
+      if (df < 0 || cf < df)  // noted, and checked on against its postings
+        found("terms: term " + std::to_string(id) + " has df " + std::to_string(df) + ", cf " + std::to_string(cf));
+      terms_.emplace(id, Term{static_cast<int>(field), std::string(q.text(2)), static_cast<std::uint64_t>(std::max<std::int64_t>(df, 0)),
+                              static_cast<std::uint64_t>(std::max<std::int64_t>(cf, 0))});
       with_df += df > 0;
-      df_sum += static_cast<std::uint64_t>(df);
+      df_sum += static_cast<std::uint64_t>(std::max<std::int64_t>(df, 0));
     });
     expect("terms", counters_.terms, with_df, "terms with df > 0 number");
     expect("postings", counters_.postings, df_sum, "the terms' df add up to");

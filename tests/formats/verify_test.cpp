@@ -104,7 +104,8 @@ TEST_CASE("verify: each kind of damage is named") {
        "DELETE FROM doc_terms WHERE doc_id = (SELECT max(doc_id) FROM doc_terms)"},
   };
   for (const Damage& d : cases) {
-    CAPTURE(d.what);
+    const std::string what = d.what;
+    CAPTURE(what);
     const std::string copy = s.other("copy.sqlite");
     std::filesystem::copy_file(s.index(), copy, std::filesystem::copy_options::overwrite_existing);
     sql_exec(copy, d.sql);
