@@ -28,8 +28,10 @@ bool Stmt::step() {
   int rc = sqlite3_step(s_);
   if (rc == SQLITE_ROW) return true;
   if (rc != SQLITE_DONE) {
-    std::string msg = sqlite3_errmsg(db_);
-    status_ = rc == SQLITE_BUSY ? Status::Busy(msg) : Status::IOError(msg);
+    // Named by its file: "database or disk is full" alone does not say which disk.
+    const char* file = sqlite3_db_filename(db_, "main");
+    status_ = classify(rc, (file != nullptr && *file != '\0' ? std::string(file) + ": " : std::string()) +
+                               sqlite3_errmsg(db_));
   }
   return false;
 }
