@@ -33,8 +33,9 @@ bool holds_escaped_byte(std::string_view text);
 std::string unescape_name(std::string_view text);
 
 // `bytes` safe to print on a terminal: control characters (U+0000–U+001F,
-// U+007F, U+0080–U+009F), backslashes and bytes that are not UTF-8 are
-// written as \xHH (a backslash as \x5c), so the name cannot move the cursor,
+// U+007F, U+0080–U+009F), backslashes, bytes that are not UTF-8 and the
+// escape's own characters U+F780–U+F7FF are written as \xHH byte by byte
+// (a backslash as \x5c), so the name cannot move the cursor,
 // recolour or retitle the terminal, and reads back with printf '%b'.
 std::string terminal_name(std::string_view bytes);
 

@@ -105,19 +105,14 @@ std::string terminal_name(std::string_view bytes) {
       out += kHex[b & 0xF];
     }
   };
-  for (std::size_t i = 0; i < bytes.size();) {
-    std::size_t bad = 0;
-    const std::size_t len = utf8_sequence_length(bytes, i, &bad);
-    if (len == 0) {
-      hex(i, bad);
-      i += bad;
-      continue;
-    }
-    const char32_t c = code_point(bytes, i, len);
-    if (c < 0x20 || c == 0x7F || (c >= 0x80 && c <= 0x9F) || c == '\\') hex(i, len);
-    else out.append(bytes.substr(i, len));
-    i += len;
-  }
+  walk(
+      bytes,
+      [&](std::size_t i, std::size_t len) {
+        const char32_t c = code_point(bytes, i, len);
+        if (c < 0x20 || c == 0x7F || (c >= 0x80 && c <= 0x9F) || c == '\\') hex(i, len);
+        else out.append(bytes.substr(i, len));
+      },
+      hex);
   return out;
 }
 

@@ -2,11 +2,8 @@
 // it, one-call indexing and searching.
 #pragma once
 
-#include <sys/wait.h>
-
 #include <doctest/doctest.h>
 
-#include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <memory>
@@ -14,6 +11,7 @@
 #include <string>
 #include <vector>
 
+#include "core/util.h"
 #include "lode/indexer.h"
 #include "lode/ranking.h"
 
@@ -56,24 +54,10 @@ class Scratch {
   fs::path root_;
 };
 
-// Runs `cmd` with /bin/sh, returns its stdout; the exit code in *rc (-1
-// when killed by a signal).
-inline std::string shell_output(const std::string& cmd, int* rc) {
-  std::string out;
-  FILE* p = popen(cmd.c_str(), "r");
-  REQUIRE(p != nullptr);
-  char buf[4096];
-  std::size_t n;
-  while ((n = fread(buf, 1, sizeof buf, p)) > 0) out.append(buf, n);
-  const int status = pclose(p);
-  *rc = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return out;
-}
-
 // Runs the real `lode ARGS` (stderr joined to stdout), started through
 // `prefix` if given (a command that runs its arguments).
 inline std::string lode_run(const std::string& args, int* rc, const std::string& prefix = "") {
-  return shell_output(prefix + std::string(LODE_BINARY) + " " + args + " 2>&1", rc);
+  return lode::test::run(prefix + std::string(LODE_BINARY) + " " + args + " 2>&1", rc);
 }
 
 inline IndexReport index_tree(const std::string& index, const std::vector<std::string>& roots,

@@ -38,7 +38,7 @@ TEST_CASE("a hit whose file name is not UTF-8 prints as JSON, and its id is give
   const std::string text = lode_run(at + "search barnacle", &rc);
   CHECK(text.find(latin1) != std::string::npos);
   // A terminal (script(1) gives the command one): escaped, the escape never sent.
-  const std::string tty = shell_output("NO_COLOR=1 script -qec \"" + std::string(LODE_BINARY) + " " + at +
+  const std::string tty = lode::test::run("NO_COLOR=1 script -qec \"" + std::string(LODE_BINARY) + " " + at +
                                            "search barnacle\" /dev/null", &rc);
   CHECK(rc == 0);
   CHECK(tty.find("bell\\x1b]0;x\\x07.txt") != std::string::npos);
