@@ -100,8 +100,10 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
   for (const QueryLine& q : *queries) {
     auto results = searcher.search(q.text, o);
     if (!results) {
-      std::fprintf(stderr, "lode: query %s: %s\n", q.id.c_str(), results.status().to_string().c_str());
-      return kExitError;
+      // The same error as for the query given alone, and the same exit code.
+      std::fprintf(stderr, "lode: query %s: %s\n", shown(q.id, stderr).c_str(),
+                   shown(results.status().to_string(), stderr).c_str());
+      return exit_code(results.status());
     }
     for (std::size_t i = 0; i < results->hits.size(); ++i)
       std::printf("%s\n", format_run_line(q.id, results->hits[i].external_id, o.offset + i + 1,
