@@ -39,8 +39,14 @@ struct DocNormsLoader {
       const auto chunk = static_cast<std::uint64_t>(q.i64(0));
       const std::string_view data = q.blob(1);
       const std::uint64_t first = chunk * codec::kNormsPerChunk;
+      // The writer stores whole chunks: a short one is damage, never "not live, length 0".
+      if (data.size() != codec::kNormsPerChunk * codec::kNormEntryBytes) {
+        q.reset();
+        return Status::Corruption("norms chunk " + std::to_string(chunk) + ": " + std::to_string(data.size()) +
+                                  " bytes, not " + std::to_string(codec::kNormsPerChunk * codec::kNormEntryBytes) +
+                                  " (lode verify checks the whole index)");
+      }
       for (std::uint32_t slot = 0; slot < codec::kNormsPerChunk && first + slot < limit; ++slot) {
-        if ((slot + 1) * codec::kNormEntryBytes > data.size()) break;  // a short blob: the rest not live
         const codec::NormEntry e = codec::get_norm(data, slot);
         const auto d = static_cast<DocId>(first + slot);
         for (std::size_t f = 0; f < kFieldCount; ++f) n->length_[f][d] = e.length[f];

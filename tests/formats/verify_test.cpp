@@ -147,3 +147,17 @@ TEST_CASE("verify: a file that is not a database is damage, a missing file an er
   auto missing = lode::verify_index(s.other("none.sqlite"));
   CHECK(missing.status().code() == lode::Code::kNotFound);
 }
+
+TEST_CASE("verify: a short norms row is damage to readers too, never documents read as dead") {
+  Scratch s;
+  build_history(s);
+  sql_exec(s.index(), "UPDATE norms SET data = substr(data, 1, 120) WHERE chunk = 0");
+  CHECK(names(verify(s.index()), "norms: chunk 0"));
+  auto reader = lode::IndexReader::open(s.index());
+  REQUIRE(reader.ok());
+  auto scope = (*reader)->begin();
+  REQUIRE(scope.ok());
+  auto norms = (*reader)->norms();
+  CHECK(norms.status().code() == lode::Code::kCorruption);
+  CHECK(norms.status().message().find("norms chunk 0") != std::string::npos);
+}
