@@ -4,7 +4,6 @@
 // a fresh build of the final tree in statistics and ranked results.
 #include <signal.h>
 #include <sys/wait.h>
-#include <unistd.h>
 
 #include <doctest/doctest.h>
 
@@ -29,20 +28,6 @@ std::string note(std::mt19937& rng, std::size_t words) {
   std::string out = kWords[pick(rng)] + " " + kWords[pick(rng)] + "\n";  // the title line
   for (std::size_t i = 0; i < words; ++i) out += kWords[pick(rng)] + (i % 12 == 11 ? ".\n" : " ");
   return out + "\n";
-}
-
-// Starts `lode ARGS` and returns its pid.
-pid_t start(const std::vector<std::string>& args) {
-  const pid_t pid = fork();
-  REQUIRE(pid >= 0);
-  if (pid == 0) {
-    std::vector<char*> argv{const_cast<char*>(LODE_BINARY)};
-    for (const auto& a : args) argv.push_back(const_cast<char*>(a.c_str()));
-    argv.push_back(nullptr);
-    execv(LODE_BINARY, argv.data());
-    _exit(127);
-  }
-  return pid;
 }
 
 // Statistics and every hit's score for a few queries. Keyed by id, not
@@ -88,7 +73,7 @@ TEST_CASE("lode index killed at random points: every kill leaves a sound index, 
   REQUIRE_MESSAGE(rc == 0, out);
   int kills = 0;
   for (int round = 0; round < 20; ++round) {
-    const pid_t pid = start(args);
+    const pid_t pid = start_lode(args);
     std::this_thread::sleep_for(std::chrono::milliseconds(delay_ms(rng)));
     const bool killed = ::kill(pid, SIGKILL) == 0;
     int status = 0;

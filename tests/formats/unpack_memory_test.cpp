@@ -3,7 +3,6 @@
 // workers run. Peak memory is the child's own (wait4), not a timing.
 #include <sys/resource.h>
 #include <sys/wait.h>
-#include <unistd.h>
 #include <zlib.h>
 
 #include <doctest/doctest.h>
@@ -28,15 +27,7 @@ void write_gzip_lines(const std::string& path, int mb) {
 
 // Runs `lode ARGS`, returns its exit code; *peak_mb its peak resident memory.
 int run_measured(const std::vector<std::string>& args, double* peak_mb) {
-  const pid_t pid = fork();
-  REQUIRE(pid >= 0);
-  if (pid == 0) {
-    std::vector<char*> argv{const_cast<char*>(LODE_BINARY)};
-    for (const auto& a : args) argv.push_back(const_cast<char*>(a.c_str()));
-    argv.push_back(nullptr);
-    execv(LODE_BINARY, argv.data());
-    _exit(127);
-  }
+  const pid_t pid = start_lode(args);
   int status = 0;
   struct rusage ru {};
   REQUIRE(wait4(pid, &status, 0, &ru) == pid);
