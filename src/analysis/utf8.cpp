@@ -10,16 +10,12 @@
 #include <cstdint>
 #include <cstring>
 
+#include "analysis/utf8_sequence.h"
 #include "lode/analysis.h"
 
 namespace lode {
-namespace {
 
-constexpr char kReplacement[] = "\xEF\xBF\xBD";  // U+FFFD
-
-// Length of the valid sequence starting at s[i] (1..4), or 0 when it is
-// ill-formed; then *bad is the length of its maximal subpart (>= 1).
-std::size_t sequence_length(std::string_view s, std::size_t i, std::size_t* bad) {
+std::size_t utf8_sequence_length(std::string_view s, std::size_t i, std::size_t* bad) {
   const auto b0 = static_cast<unsigned char>(s[i]);
   std::size_t need;           // continuation bytes after the lead
   unsigned char lo = 0x80;    // allowed range of the second byte
@@ -54,6 +50,10 @@ std::size_t sequence_length(std::string_view s, std::size_t i, std::size_t* bad)
   return need + 1;
 }
 
+namespace {
+
+constexpr char kReplacement[] = "\xEF\xBF\xBD";  // U+FFFD
+
 // Index of the first non-ASCII byte at or after `i` (s.size() if none).
 // Eight bytes at a time: plain ASCII is the common case and must be fast.
 std::size_t skip_ascii(std::string_view s, std::size_t i) {
@@ -75,7 +75,7 @@ bool is_valid_utf8(std::string_view bytes) {
   const std::size_t n = bytes.size();
   while ((i = skip_ascii(bytes, i)) < n) {
     std::size_t bad = 0;
-    const std::size_t len = sequence_length(bytes, i, &bad);
+    const std::size_t len = utf8_sequence_length(bytes, i, &bad);
     if (len == 0) return false;
     i += len;
   }
@@ -89,7 +89,7 @@ Utf8Repair repair_utf8(std::string_view bytes) {
   std::size_t i = 0;
   while ((i = skip_ascii(bytes, i)) < n) {
     std::size_t bad = 0;
-    const std::size_t len = sequence_length(bytes, i, &bad);
+    const std::size_t len = utf8_sequence_length(bytes, i, &bad);
     if (len != 0) {
       i += len;
       continue;

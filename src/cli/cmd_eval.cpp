@@ -7,6 +7,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/eval_cli.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 
@@ -111,7 +112,7 @@ int run_eval(const EvalArgs& a, const Setup& setup) {
     auto j = evaluation_json(ev, a.per_query);
     j["system"] = system->label();
     j["lode_version"] = LODE_VERSION;
-    std::cout << j.dump(2) << "\n";
+    std::cout << dump_json(j, 2) << "\n";
   } else {
     print_report(ev, *system, a.per_query);
   }

@@ -5,6 +5,7 @@
 
 #include "cli/common.h"
 #include "cli/eval_cli.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 namespace {
@@ -65,7 +66,7 @@ int run_eval_compare(const EvalArgs& a, const Setup& setup) {
       print_comparison(c, *cand, eo, a.per_query);
     }
   }
-  if (a.json) std::cout << out.dump(2) << "\n";
+  if (a.json) std::cout << dump_json(out, 2) << "\n";
   return kExitOk;
 }
 

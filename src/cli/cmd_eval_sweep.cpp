@@ -6,6 +6,7 @@
 
 #include "cli/common.h"
 #include "cli/eval_cli.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 
@@ -53,7 +54,7 @@ int run_eval_sweep(const EvalArgs& a, const Setup& setup) {
     auto j = sweep_json(*result);
     j["system"] = system->label();
     j["lode_version"] = LODE_VERSION;
-    std::cout << j.dump(2) << "\n";
+    std::cout << dump_json(j, 2) << "\n";
     return kExitOk;
   }
   std::printf("lode %s eval sweep: %s\n", LODE_VERSION, system->label().c_str());

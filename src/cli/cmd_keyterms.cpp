@@ -6,6 +6,7 @@
 #include "cli/common.h"
 #include "cli/explore_options.h"
 #include "lode/explore_json.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 namespace {
@@ -64,7 +65,7 @@ Runner add_keyterms_command(CLI::App& app, const Setup& setup) {
       r = key_terms_of_query(*reader, a->query, SearchOptions{}, o);
     }
     if (!r) return fail(r.status());
-    if (a->json) std::cout << keyterms_json(source, *r, o).dump(2) << "\n";
+    if (a->json) std::cout << dump_json(keyterms_json(source, *r, o), 2) << "\n";
     else print(*r);
     return int{kExitOk};
   };

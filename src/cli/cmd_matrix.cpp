@@ -7,6 +7,7 @@
 #include "cli/common.h"
 #include "cli/explore_options.h"
 #include "lode/explore_json.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 
@@ -55,7 +56,7 @@ Runner add_matrix_command(CLI::App& app, const Setup& setup) {
     if (!reader) return int{kExitError};
     auto r = export_matrix(*reader, o, files);
     if (!r) return fail(r.status());
-    if (a->json) std::cout << matrix_json(*r, files, o).dump(2) << "\n";
+    if (a->json) std::cout << dump_json(matrix_json(*r, files, o), 2) << "\n";
     else
       std::printf("%zu documents x %zu terms, %zu entries: %s, %s, %s\n", r->rows, r->columns, r->entries,
                   files.matrix.c_str(), files.vocabulary.c_str(), files.documents.c_str());

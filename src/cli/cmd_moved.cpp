@@ -7,6 +7,7 @@
 #include "cli/explore_options.h"
 #include "cli/model_options.h"
 #include "lode/inspect.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 namespace {
@@ -75,7 +76,7 @@ Runner add_moved_command(CLI::App& app, const Setup& setup) {
     auto m = what_moved(**searcher, a->query, *before, *after, a->o);
     if (!m) return fail(m.status());
     auto j = moved_json(a->query, *m, *before, *after, a->o);
-    if (a->json) std::cout << j.dump(2) << "\n";
+    if (a->json) std::cout << dump_json(j, 2) << "\n";
     else print(j);
     return int{kExitOk};
   };

@@ -6,6 +6,7 @@
 #include "cli/common.h"
 #include "cli/explore_options.h"
 #include "lode/explore_json.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 namespace {
@@ -69,7 +70,7 @@ Runner add_nearest_command(CLI::App& app, const Setup& setup) {
       r = similar_to_text(*reader, a->text, o);
     }
     if (!r) return fail(r.status());
-    if (a->json) std::cout << nearest_json(source, *r, o).dump(2) << "\n";
+    if (a->json) std::cout << dump_json(nearest_json(source, *r, o), 2) << "\n";
     else print(*r);
     return int{kExitOk};
   };

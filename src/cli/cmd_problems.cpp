@@ -28,7 +28,8 @@ int run_problems(const ProblemsArgs& a, const Setup& setup) {
     char when[32] = "";
     std::tm tm{};
     if (gmtime_r(&t, &tm) != nullptr) std::strftime(when, sizeof when, "%Y-%m-%dT%H:%M:%SZ", &tm);
-    std::printf("%s\t%s\t%s\t%s\n", p.error ? "failed" : "warning", when, p.path.c_str(), p.message.c_str());
+    std::printf("%s\t%s\t%s\t%s\n", p.error ? "failed" : "warning", when, shown(p.path).c_str(),
+                shown(p.message).c_str());
   }
   return errors > 0 ? kExitSomeFailed : kExitOk;
 }

@@ -7,6 +7,7 @@
 #include "cli/common.h"
 #include "cli/model_options.h"
 #include "lode/eval.h"
+#include "lode/json_text.h"
 #include "lode/present.h"
 #include "lode/ranking.h"
 
@@ -70,7 +71,7 @@ int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, con
     if (!words) return fail(words.status());
     nlohmann::json out = results_json(a.query, *results, o);
     out["words"] = *words;
-    std::cout << out.dump(2) << "\n";
+    std::cout << dump_json(out, 2) << "\n";
     return kExitOk;
   }
   for (auto& w : results->warnings) std::fprintf(stderr, "lode: note: %s\n", w.c_str());
@@ -86,8 +87,8 @@ int run_single(IndexReader& reader, Searcher& searcher, const SearchArgs& a, con
                 static_cast<unsigned long long>(results->matched), describe(o).c_str(), o.offset + o.top);
   for (std::size_t i = 0; i < results->hits.size(); ++i) {
     const Hit& h = results->hits[i];
-    std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : h.title.c_str());
-    std::printf("      %s  [%s]\n", h.external_id.c_str(), h.kind.c_str());
+    std::printf("%3zu. %9.4f  %s\n", o.offset + i + 1, h.score, h.title.empty() ? "(untitled)" : shown(h.title).c_str());
+    std::printf("      %s  [%s]\n", shown(h.external_id).c_str(), h.kind.c_str());
     if (!h.snippet.text.empty()) std::printf("      %s\n", marked(h.snippet, tty).c_str());
     if (a.why) print_breakdown(h, o.model);
   }
@@ -107,8 +108,10 @@ int run_batch(Searcher& searcher, const SearchArgs& a, SearchOptions o, CLI::App
   for (const QueryLine& q : *queries) {
     auto results = searcher.search(q.text, o);
     if (!results) {
-      std::fprintf(stderr, "lode: query %s: %s\n", q.id.c_str(), results.status().to_string().c_str());
-      return kExitError;
+      // The same error as for the query given alone, and the same exit code.
+      std::fprintf(stderr, "lode: query %s: %s\n", shown(q.id, stderr).c_str(),
+                   shown(results.status().to_string(), stderr).c_str());
+      return exit_code(results.status());
     }
     for (std::size_t i = 0; i < results->hits.size(); ++i)
       std::printf("%s\n", format_run_line(q.id, results->hits[i].external_id, o.offset + i + 1,

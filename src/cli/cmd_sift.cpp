@@ -7,6 +7,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/explore_options.h"
+#include "lode/json_text.h"
 #include "lode/screening_json.h"
 
 namespace lode::cli {
@@ -87,7 +88,7 @@ int show(Open& o, const SiftArgs& a, const SiftBatch& b) {
   if (!st) return fail(st.status());
   auto j = batch_json(*o.reader, a.name, b, *st);
   if (!j) return fail(j.status());
-  if (a.json) std::cout << j->dump(2) << "\n";
+  if (a.json) std::cout << dump_json(*j, 2) << "\n";
   else print_batch(*j);
   return kExitOk;
 }
@@ -95,7 +96,7 @@ int show(Open& o, const SiftArgs& a, const SiftBatch& b) {
 int status(Open& o, const SiftArgs& a) {
   auto st = o.book->state(*o.reader, a.name);
   if (!st) return fail(st.status());
-  if (a.json) std::cout << sift_json(*st, a.judgments).dump(2) << "\n";
+  if (a.json) std::cout << dump_json(sift_json(*st, a.judgments), 2) << "\n";
   else print_state(*st);
   return kExitOk;
 }
@@ -214,7 +215,7 @@ Runner add_sift_command(CLI::App& app, const Setup& setup) {
     if (list->parsed()) {
       auto l = o->book->list();
       if (!l) return fail(l.status());
-      if (a->json) std::cout << sift_list_json(*l).dump(2) << "\n";
+      if (a->json) std::cout << dump_json(sift_list_json(*l), 2) << "\n";
       for (auto& s : *l)
         if (!a->json) std::printf("%-20s judged %5zu  relevant %5zu  batches %4zu  %s\n", s.name.c_str(), s.judged,
                                   s.relevant, s.batches, s.query.c_str());

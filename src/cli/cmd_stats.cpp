@@ -4,6 +4,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "lode/json_text.h"
 #include "lode/present.h"
 
 namespace lode::cli {
@@ -20,7 +21,7 @@ Runner add_stats_command(CLI::App& app, const Setup& setup) {
     CollectionStats s = (*reader)->stats();
     const IndexSettings& set = (*reader)->settings();
     if (*json) {
-      std::cout << stats_json(s, set, path).dump(2) << "\n";
+      std::cout << dump_json(stats_json(s, set, path), 2) << "\n";
       return int{kExitOk};
     }
     auto u = [](std::uint64_t v) { return static_cast<unsigned long long>(v); };

@@ -6,6 +6,7 @@
 #include "cli/common.h"
 #include "cli/explore_options.h"
 #include "lode/explore_json.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 
@@ -35,7 +36,7 @@ Runner add_themes_command(CLI::App& app, const Setup& setup) {
     auto r = find_themes(*reader, o);
     if (!r) return fail(r.status());
     if (a->json) {
-      std::cout << themes_json(*r, o).dump(2) << "\n";
+      std::cout << dump_json(themes_json(*r, o), 2) << "\n";
       return int{kExitOk};
     }
     if (r->k_suggested) {

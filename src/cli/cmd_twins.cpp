@@ -6,6 +6,7 @@
 #include "cli/common.h"
 #include "cli/explore_options.h"
 #include "lode/explore_json.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 
@@ -50,7 +51,7 @@ Runner add_twins_command(CLI::App& app, const Setup& setup) {
     auto r = find_twins(*reader, o);
     if (!r) return fail(r.status());
     if (a->json) {
-      std::cout << twins_json(*r, o).dump(2) << "\n";
+      std::cout << dump_json(twins_json(*r, o), 2) << "\n";
       return int{kExitOk};
     }
     for (std::size_t i = 0; i < r->groups.size(); ++i) {

@@ -6,6 +6,7 @@
 #include "cli/explore_options.h"
 #include "cli/model_options.h"
 #include "lode/inspect.h"
+#include "lode/json_text.h"
 
 namespace lode::cli {
 namespace {
@@ -75,7 +76,7 @@ Runner add_whynot_command(CLI::App& app, const Setup& setup) {
     auto w = why_not(**searcher, *reader, a->query, *doc, *options, a->w);
     if (!w) return fail(w.status());
     auto j = why_not_json(a->query, *w, *options, a->w);
-    if (a->json) std::cout << j.dump(2) << "\n";
+    if (a->json) std::cout << dump_json(j, 2) << "\n";
     else print(j);
     return int{kExitOk};
   };

@@ -25,5 +25,6 @@ Runner add_matrix_command(CLI::App& app, const Setup& setup);
 Runner add_sift_command(CLI::App& app, const Setup& setup);
 Runner add_whynot_command(CLI::App& app, const Setup& setup);
 Runner add_moved_command(CLI::App& app, const Setup& setup);
+Runner add_verify_command(CLI::App& app, const Setup& setup);
 
 }  // namespace lode::cli

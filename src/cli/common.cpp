@@ -5,6 +5,8 @@
 #include <cstdlib>
 #include <filesystem>
 
+#include "lode/names.h"
+
 namespace lode::cli {
 
 std::string resolve_index(const Setup& setup) {
@@ -32,9 +34,17 @@ bool stdout_styled() {
   return stdout_is_tty() && (no_color == nullptr || *no_color == '\0');
 }
 
-int fail(const Status& s) {
-  std::fprintf(stderr, "lode: %s\n", s.to_string().c_str());
+std::string shown(std::string_view text, std::FILE* stream) {
+  return ::isatty(::fileno(stream)) == 1 ? terminal_name(text) : std::string(text);
+}
+
+int exit_code(const Status& s) {
   return s.code() == Code::kInvalidArgument || s.code() == Code::kLimit ? kExitUsage : kExitError;
+}
+
+int fail(const Status& s) {
+  std::fprintf(stderr, "lode: %s\n", shown(s.to_string(), stderr).c_str());
+  return exit_code(s);
 }
 
 }  // namespace lode::cli

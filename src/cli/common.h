@@ -4,6 +4,7 @@
 
 #include <cstdio>
 #include <string>
+#include <string_view>
 
 #include "lode/config.h"
 #include "lode/status.h"
@@ -16,6 +17,7 @@ enum Exit : int {
   kExitError = 1,        // the command failed (message on stderr)
   kExitUsage = 2,        // bad command line
   kExitSomeFailed = 3,   // index: finished, but some files could not be read
+  kExitDamaged = 4,      // verify: the index is damaged (findings on stdout)
 };
 
 // What every command starts from: the global --index and the user's
@@ -39,6 +41,16 @@ bool stdout_is_tty();
 // Whether to style output on stdout (bold words): a terminal, and NO_COLOR
 // unset or empty (https://no-color.org).
 bool stdout_styled();
+
+// `text` (a file name, or a message holding one) as printed on `stream`:
+// terminal_name() (lode/names.h) when the stream is a terminal, so a name
+// holding control characters cannot steer it; the exact bytes otherwise,
+// so scripts read names as they are.
+std::string shown(std::string_view text, std::FILE* stream = stdout);
+
+// The exit code for a failed status: kExitUsage for a bad argument or a
+// limit (the user can fix the command), else kExitError.
+int exit_code(const Status& s);
 
 // Prints "lode: <status>" to stderr and returns the exit code for it.
 int fail(const Status& s);

@@ -4,6 +4,8 @@
 #include <csignal>
 #include <cstdio>
 
+#include "cli/common.h"
+
 namespace lode::cli {
 namespace {
 
@@ -82,8 +84,10 @@ IndexRunOptions run_options_from(const IndexArgs& a) {
 
 void print_report(const IndexReport& r, bool quiet, double seconds, const std::string& index_path,
                   const CollectionStats& st) {
-  for (auto& w : r.warnings) std::fprintf(stderr, "lode: warning: %s: %s\n", w.path.c_str(), w.message.c_str());
-  for (auto& p : r.problems) std::fprintf(stderr, "lode: skipped %s: %s\n", p.path.c_str(), p.message.c_str());
+  for (auto& w : r.warnings)
+    std::fprintf(stderr, "lode: warning: %s: %s\n", shown(w.path, stderr).c_str(), shown(w.message, stderr).c_str());
+  for (auto& p : r.problems)
+    std::fprintf(stderr, "lode: skipped %s: %s\n", shown(p.path, stderr).c_str(), shown(p.message, stderr).c_str());
   if (quiet) return;
   for (auto& [kind, k] : r.by_kind)
     std::fprintf(stderr, "  %-9s %6zu read  %7zu documents  %9.1f MB  %5zu failed\n", kind.c_str(), k.files,

@@ -58,6 +58,8 @@ int main(int argc, char** argv) {
   runners.emplace_back(whynot, lode::cli::add_whynot_command(*whynot, setup));
   auto* moved = app.add_subcommand("moved", "one query under two model settings: what entered, left and moved");
   runners.emplace_back(moved, lode::cli::add_moved_command(*moved, setup));
+  auto* verify = app.add_subcommand("verify", "read the whole index and report any damage (exit code 4)");
+  runners.emplace_back(verify, lode::cli::add_verify_command(*verify, setup));
   try {
     // CLI11 takes the arguments last first.
     std::vector<std::string> args = lode::cli::protect_dash_values(app, argc, argv);

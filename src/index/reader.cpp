@@ -11,6 +11,7 @@
 #include "index/sqlite.h"
 #include "index/tier.h"
 #include "lode/index.h"
+#include "lode/names.h"
 
 namespace lode {
 
@@ -39,8 +40,14 @@ struct DocNormsLoader {
       const auto chunk = static_cast<std::uint64_t>(q.i64(0));
       const std::string_view data = q.blob(1);
       const std::uint64_t first = chunk * codec::kNormsPerChunk;
+      // The writer stores whole chunks: a short one is damage, never "not live, length 0".
+      if (data.size() != codec::kNormsPerChunk * codec::kNormEntryBytes) {
+        q.reset();
+        return Status::Corruption("norms chunk " + std::to_string(chunk) + ": " + std::to_string(data.size()) +
+                                  " bytes, not " + std::to_string(codec::kNormsPerChunk * codec::kNormEntryBytes) +
+                                  " (lode verify checks the whole index)");
+      }
       for (std::uint32_t slot = 0; slot < codec::kNormsPerChunk && first + slot < limit; ++slot) {
-        if ((slot + 1) * codec::kNormEntryBytes > data.size()) break;  // a short blob: the rest not live
         const codec::NormEntry e = codec::get_norm(data, slot);
         const auto d = static_cast<DocId>(first + slot);
         for (std::size_t f = 0; f < kFieldCount; ++f) n->length_[f][d] = e.length[f];
@@ -185,20 +192,12 @@ IndexReader::~IndexReader() {
 }
 
 Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path, const ReaderOptions& options) {
-  std::error_code ec;
-  if (!std::filesystem::exists(path, ec))
-    return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
+  auto db = schema::open_for_reading(path);
+  if (!db) return db.status();
   auto impl = std::make_unique<Impl>();
   impl->cache = options.cache ? options.cache : std::make_shared<ReaderCache>();
   impl->tier_options = TierOptions{options.tier_min_postings, options.tier_share};
-  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE);  // read-write so WAL files can be opened; we never write
-  if (!db) {
-    db = sql::Db::open(path, SQLITE_OPEN_READONLY);
-    if (!db) return db.status();
-  }
   impl->db = std::move(db.value());
-  LODE_RETURN_IF_ERROR(schema::configure(impl->db, false));
-  LODE_RETURN_IF_ERROR(impl->db.exec("PRAGMA query_only=1"));
   auto have = schema::exists(impl->db);
   if (!have) return have.status();
   if (!*have) return Status::Corruption(path + ": not a lode index");
@@ -407,10 +406,18 @@ Result<DocumentInfo> IndexReader::document(DocId doc) {
 
 Result<DocId> IndexReader::find_external(std::string_view external_id) {
   auto& q = impl_->q_external;
-  q.bind(1, external_id);
-  auto row = sql::one_row(q, "no document with id '" + std::string(external_id) + "'");
-  if (!row) return row.status();
-  return static_cast<DocId>(q.i64(0));
+  auto lookup = [&](std::string_view id) -> Result<DocId> {
+    q.bind(1, id);
+    auto row = sql::one_row(q, "no document with id '" + escape_name(external_id) + "'");
+    if (!row) return row.status();
+    return static_cast<DocId>(q.i64(0));
+  };
+  auto found = lookup(external_id);
+  // An id printed as JSON holds the byte escape of lode/names.h where its
+  // file name is not UTF-8: given back, it names the file's real bytes.
+  if (found.status().code() == Code::kNotFound && holds_escaped_byte(external_id))
+    return lookup(unescape_name(external_id));
+  return found;
 }
 
 Result<std::string> IndexReader::stored_text(DocId doc, Field field) {

@@ -168,6 +168,66 @@ Status configure(sql::Db& db, bool writer) {
   return db.exec("PRAGMA temp_store=MEMORY");
 }
 
+namespace {
+
+// `path` as an SQLite URI filename: '%', '?', '#' and bytes outside
+// printable ASCII percent-encoded (https://www.sqlite.org/uri.html).
+std::string uri_of(const std::string& path) {
+  static constexpr char kHex[] = "0123456789ABCDEF";
+  std::string out = "file:";
+  for (const char ch : path) {
+    const auto c = static_cast<unsigned char>(ch);
+    if (c <= 0x20 || c >= 0x7F || c == '%' || c == '?' || c == '#') {
+      out += '%';
+      out += kHex[c >> 4];
+      out += kHex[c & 0xF];
+    } else {
+      out += ch;
+    }
+  }
+  return out;
+}
+
+// Opens `path` (through `uri` if given) with `flags` and reads the schema once, so that a file SQLite cannot
+// read fails here; *rc receives SQLite's primary result code (SQLITE_OK when read).
+Result<sql::Db> open_and_probe(const std::string& path, const std::string& uri, int flags, int* rc) {
+  *rc = SQLITE_CANTOPEN;
+  auto db = sql::Db::open(path, flags, uri);
+  if (!db) return db.status();
+  LODE_RETURN_IF_ERROR(configure(*db, false));
+  LODE_RETURN_IF_ERROR(db->exec("PRAGMA query_only=1"));
+  auto probe = db->prepare("SELECT count(*) FROM sqlite_schema");
+  *rc = probe ? (probe->step() ? SQLITE_OK : sqlite3_extended_errcode(db->raw()) & 0xff)
+              : sqlite3_extended_errcode(db->raw()) & 0xff;
+  if (*rc != SQLITE_OK) return db->error(*rc, "cannot read");
+  return db;
+}
+
+}  // namespace
+
+Result<sql::Db> open_for_reading(const std::string& path) {
+  std::error_code ec;
+  if (!std::filesystem::exists(path, ec))
+    return Status::NotFound("no index at " + path + " (create one with: lode index --index " + path + " FOLDER)");
+  // Read-write so the WAL's -shm file can be made and shared with a writer;
+  // nothing is written (query_only). A read-only file in a writable folder
+  // opens this way too (SQLite falls back to reading).
+  int rc = SQLITE_OK;
+  auto db = open_and_probe(path, "", SQLITE_OPEN_READWRITE, &rc);
+  if (db || (rc != SQLITE_READONLY && rc != SQLITE_CANTOPEN)) return db;
+  // A folder we may not write: SQLite cannot make the -shm file a WAL reader
+  // needs. With no WAL content pending, the file alone is the last commit:
+  // read it as immutable (no -shm, no locks, nothing created). Pending WAL
+  // content cannot be read without a -shm file: say so rather than read an
+  // older state.
+  const std::string wal = path + "-wal";
+  if (std::filesystem::file_size(wal, ec) > 0 && !ec)
+    return Status::IOError(path + ": cannot read: its folder is not writable and " + wal +
+                           " holds commits not yet in the index file (run any lode command with write access "
+                           "to the folder once, or copy the index with its -wal file somewhere writable)");
+  return open_and_probe(path, uri_of(path) + "?immutable=1", SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, &rc);
+}
+
 Result<std::vector<RecordedProblem>> load_problems(sql::Db& db) {
   auto q = db.prepare("SELECT path, error, message, time_ns FROM problems ORDER BY path, rowid");
   if (!q) return q.status();

@@ -27,6 +27,14 @@ struct Counters {
 Result<Counters> load_counters(sql::Db& db);
 Status store_counters(sql::Db& db, const Counters& c);
 
+// Opens an existing index to read it, never to write, with read permission
+// alone: in a folder the user may not write, the file is opened as SQLite's
+// "immutable" (nothing created beside it) unless WAL content is pending
+// (docs/index-format.md). Reads the schema once. Errors: NotFound (naming
+// how to create one) when there is no file at `path`, Corruption when
+// SQLite cannot read it as a database, IOError otherwise.
+Result<sql::Db> open_for_reading(const std::string& path);
+
 // Applies the pragmas every connection uses (WAL, foreign-free, page cache).
 Status configure(sql::Db& db, bool writer);
 

@@ -1,6 +1,17 @@
 #include "index/sqlite.h"
 
 namespace lode::sql {
+namespace {
+
+// SQLite's result code as a Status: Busy, Corruption (damaged or not a
+// database: `lode verify` says more), else IOError.
+Status classify(int rc, std::string msg) {
+  if ((rc & 0xff) == SQLITE_BUSY) return Status::Busy(std::move(msg));
+  if ((rc & 0xff) == SQLITE_CORRUPT || (rc & 0xff) == SQLITE_NOTADB) return Status::Corruption(std::move(msg));
+  return Status::IOError(std::move(msg));
+}
+
+}  // namespace
 
 Stmt& Stmt::operator=(Stmt&& o) noexcept {
   if (this != &o) {
@@ -17,8 +28,10 @@ bool Stmt::step() {
   int rc = sqlite3_step(s_);
   if (rc == SQLITE_ROW) return true;
   if (rc != SQLITE_DONE) {
-    std::string msg = sqlite3_errmsg(db_);
-    status_ = rc == SQLITE_BUSY ? Status::Busy(msg) : Status::IOError(msg);
+    // Named by its file: "database or disk is full" alone does not say which disk.
+    const char* file = sqlite3_db_filename(db_, "main");
+    status_ = classify(rc, (file != nullptr && *file != '\0' ? std::string(file) + ": " : std::string()) +
+                               sqlite3_errmsg(db_));
   }
   return false;
 }
@@ -44,12 +57,12 @@ std::string_view Stmt::blob(int col) const {
   return p ? std::string_view(p, static_cast<std::size_t>(n)) : std::string_view();
 }
 
-Result<Db> Db::open(const std::string& path, int flags) {
+Result<Db> Db::open(const std::string& path, int flags, const std::string& uri) {
   Db db;
   db.path_ = path;
   // No per-connection mutex: a connection serves one thread at a time
   // (lode/index.h), and the lock around every call cost ~6% of indexing.
-  int rc = sqlite3_open_v2(path.c_str(), &db.db_, flags | SQLITE_OPEN_NOMUTEX, nullptr);
+  int rc = sqlite3_open_v2(uri.empty() ? path.c_str() : uri.c_str(), &db.db_, flags | SQLITE_OPEN_NOMUTEX, nullptr);
   if (rc != SQLITE_OK) return db.error(rc, "cannot open");
   sqlite3_busy_timeout(db.db_, 5000);
   sqlite3_extended_result_codes(db.db_, 1);
@@ -62,8 +75,7 @@ Status Db::exec(const std::string& sql) {
   if (rc != SQLITE_OK) {
     std::string msg = err ? err : sqlite3_errstr(rc);
     sqlite3_free(err);
-    return (rc & 0xff) == SQLITE_BUSY ? Status::Busy(path_ + ": " + msg)
-                                      : Status::IOError(path_ + ": " + msg);
+    return classify(rc, path_ + ": " + msg);
   }
   return Status();
 }
@@ -92,11 +104,7 @@ Row one_row(Stmt& s, std::string_view missing) {
 }
 
 Status Db::error(int rc, std::string_view what) const {
-  std::string msg = path_ + ": " + std::string(what) + ": " +
-                    (db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc));
-  if ((rc & 0xff) == SQLITE_BUSY) return Status::Busy(msg);
-  if ((rc & 0xff) == SQLITE_CORRUPT || (rc & 0xff) == SQLITE_NOTADB) return Status::Corruption(msg);
-  return Status::IOError(msg);
+  return classify(rc, path_ + ": " + std::string(what) + ": " + (db_ ? sqlite3_errmsg(db_) : sqlite3_errstr(rc)));
 }
 
 }  // namespace lode::sql

@@ -91,8 +91,9 @@ class Db {
   Db(const Db&) = delete;
   ~Db() { sqlite3_close_v2(db_); }
 
-  // flags: SQLITE_OPEN_* bits.
-  static Result<Db> open(const std::string& path, int flags);
+  // flags: SQLITE_OPEN_* bits. `uri`, when given, is what SQLite opens (with
+  // SQLITE_OPEN_URI in flags); `path` still names the file in messages.
+  static Result<Db> open(const std::string& path, int flags, const std::string& uri = "");
   Status exec(const std::string& sql);
   Result<Stmt> prepare(std::string_view sql);
   // Prepares each statement into its slot; stops at the first error.

@@ -335,8 +335,13 @@ Status IndexWriter::Impl::flush() {
   // 1. Term ids for every term of the batch, adding its df and cf. Ids
   // above the old maximum are new: they have no blocks.
   TermId max_before = 0;
-  if (q_max_term.step()) max_before = q_max_term.i64(0);
-  q_max_term.reset();
+  {
+    // A failed read must stop the flush: taken as 0, every term would look
+    // new and its existing blocks would be ignored.
+    auto row = sql::one_row(q_max_term, "the largest term id");
+    if (!row) return row.status();
+    max_before = q_max_term.i64(0);
+  }
   std::vector<TermId> id_of(batch.term_count());
   std::vector<std::pair<TermId, std::uint32_t>> order;  // (term id, slot)
   order.reserve(batch.term_count());
@@ -606,8 +611,12 @@ Status IndexWriter::remove_file(const std::string& path) {
   LODE_RETURN_IF_ERROR(m.begin());
   m.q_file.bind(1, path);
   std::int64_t file_id = 0;
-  if (m.q_file.step()) file_id = m.q_file.i64(0);
-  m.q_file.reset();
+  {
+    // Found a moment ago: no row now is a read error, never "file 0".
+    auto row = sql::one_row(m.q_file, path + ": not in the index");
+    if (!row) return row.status();
+    file_id = m.q_file.i64(0);
+  }
   LODE_RETURN_IF_ERROR(m.remove_docs_of(file_id));
   LODE_RETURN_IF_ERROR(m.begin());
   LODE_RETURN_IF_ERROR(m.q_delete_file.bind(1, file_id).run());

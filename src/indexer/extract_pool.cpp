@@ -1,6 +1,12 @@
 #include "indexer/extract_pool.h"
 
+#include <fcntl.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
 #include <algorithm>
+#include <filesystem>
+#include <string_view>
 
 namespace lode::indexer {
 
@@ -16,6 +22,27 @@ std::size_t held_bytes(const ReadOutcome& o) {
   if (o.read && o.read->ok())
     for (const Document& d : (*o.read)->documents) n += d.body.size() + d.title.size() + d.external_id.size();
   return n;
+}
+
+// Whether reading `path` unpacks it: gzip or a zip container (DOCX, ODT,
+// EPUB), by signature as read_file() decides, or by name when the file
+// cannot be read here (read_file() then reports why). Non-blocking: the
+// file may have been replaced by a pipe since the crawl.
+bool unpacks(const std::string& path) {
+  char head[4] = {};
+  ssize_t got = -1;
+  const int fd = ::open(path.c_str(), O_RDONLY | O_NONBLOCK | O_CLOEXEC);
+  if (fd >= 0) {
+    struct stat st {};
+    if (::fstat(fd, &st) == 0 && S_ISREG(st.st_mode)) got = ::read(fd, head, sizeof head);
+    ::close(fd);
+  }
+  if (got >= 2) {
+    const std::string_view h(head, static_cast<std::size_t>(got));
+    return h.substr(0, 2) == "\x1f\x8b" || h == std::string_view("PK\x03\x04", 4);
+  }
+  const std::string ext = std::filesystem::path(path).extension().string();
+  return ext == ".gz" || ext == ".docx" || ext == ".odt" || ext == ".epub";
 }
 
 }  // namespace
@@ -63,7 +90,11 @@ void ExtractPool::work(std::stop_token stop) {
         auto hash = hash_file(*job.path, options_);
         if (hash.ok() && contains(job.rename_hashes, *hash)) out.renamed_hash = *hash;
       }
-      if (out.renamed_hash.empty()) out.read = read_file(*job.path, options_);
+      if (out.renamed_hash.empty()) {
+        std::unique_lock unpacking(unpack_mu_, std::defer_lock);
+        if (unpacks(*job.path)) unpacking.lock();
+        out.read = read_file(*job.path, options_);
+      }
     }
     const std::size_t bytes = held_bytes(out);
     bool wanted = false;

@@ -59,6 +59,10 @@ class ExtractPool {
   std::size_t ahead_bytes_;
   std::size_t waiting_bytes_ = 0;  // text held by finished, unclaimed results
   std::mutex mu_;
+  // Held while a file that unpacks (gzip, a zip container) is read: one
+  // unpacks at a time, so its bytes, up to ReadOptions::max_unpacked_bytes,
+  // are held once and not once per worker, whatever `threads` is.
+  std::mutex unpack_mu_;
   std::condition_variable_any cv_;
   // Finished, unclaimed outcomes by job (at most `ahead` of them: a vector
   // with a slot per job cost 150 bytes a file on a million-file crawl).

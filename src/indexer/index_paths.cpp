@@ -189,7 +189,9 @@ Status Run::apply(const FileInfo& info, indexer::ReadOutcome out, const std::opt
   const std::string root = indexer::root_of(info.path, roots_);
   if (!out.renamed_hash.empty()) {
     for (auto it = missing_.lower_bound(info.size); it != missing_.end() && it->first == info.size; ++it) {
-      if (it->second.hash != out.renamed_hash) continue;
+      if (it->second.hash != out.renamed_hash ||
+          indexer::reading_suffix(it->second.path) != indexer::reading_suffix(info.path))
+        continue;
       const FileRecord was = it->second;
       missing_.erase(it);
       FileRecord now = was;
@@ -298,7 +300,8 @@ Result<IndexReport> Run::go(const std::vector<std::string>& roots) {
     ReadJob job{&info.path, {}, streams_as_jsonl(info.path, info.size, options_.read)};
     if (!old)
       for (auto m = missing_.lower_bound(info.size); m != missing_.end() && m->first == info.size; ++m)
-        job.rename_hashes.push_back(m->second.hash);
+        if (indexer::reading_suffix(m->second.path) == indexer::reading_suffix(info.path))
+          job.rename_hashes.push_back(m->second.hash);
     todo.push_back(Todo{&info, old, job.stream});
     jobs.push_back(std::move(job));
   }

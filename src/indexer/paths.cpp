@@ -40,12 +40,18 @@ std::string document_id(const std::string& reader_id, const std::string& path, c
   return rel;
 }
 
-std::string kind_of_name(const std::string& path) {
+std::string reading_suffix(const std::string& path) {
   std::string name = fs::path(path).filename().string();
   std::transform(name.begin(), name.end(), name.begin(),
                  [](unsigned char c) { return static_cast<char>(c >= 'A' && c <= 'Z' ? c + 32 : c); });
-  if (name.size() > 3 && name.ends_with(".gz")) name.resize(name.size() - 3);
-  const std::string ext = fs::path(name).extension().string();
+  const bool gz = name.size() > 3 && name.ends_with(".gz");
+  if (gz) name.resize(name.size() - 3);
+  return fs::path(name).extension().string() + (gz ? ".gz" : "");
+}
+
+std::string kind_of_name(const std::string& path) {
+  std::string ext = reading_suffix(path);
+  if (ext.ends_with(".gz")) ext.resize(ext.size() - 3);
   if (ext == ".pdf") return "pdf";
   if (ext == ".html" || ext == ".htm" || ext == ".xhtml") return "html";
   if (ext == ".docx" || ext == ".odt" || ext == ".epub") return ext.substr(1);

@@ -31,4 +31,10 @@ std::string document_id(const std::string& reader_id, const std::string& path, c
 // files that failed before a reader could say.
 std::string kind_of_name(const std::string& path);
 
+// What of a file's name decides how it is read: its extension, lower case,
+// with the one inside a ".gz" (".md.gz" for Notes.MD.gz, "" for README).
+// A renamed file keeps its documents only when this is unchanged: a.md
+// renamed to a.txt reads differently (title, markup), a.txt to a.png not at all.
+std::string reading_suffix(const std::string& path);
+
 }  // namespace lode::indexer

@@ -104,7 +104,7 @@ class Walker {
       }
     }
     if (S_ISREG(st.st_mode)) return add_file(path, rel, st);
-    if (!S_ISDIR(st.st_mode)) return;  // sockets, pipes, devices: never documents
+    if (!S_ISDIR(st.st_mode)) return special_file(path, rel, st);
     // An excluded folder is pruned whole, so "build" or "**/node_modules"
     // in the exclude list skips the folder's contents too.
     if (matches_any(options_.exclude, rel)) return;
@@ -114,6 +114,20 @@ class Walker {
     }
     if (visited_.count(id) != 0) return problem(path, "folder already crawled through another path");
     enter(path, rel, id);
+  }
+
+  // A pipe, socket or device is never read (opening a pipe would wait for a
+  // writer; a device may never end), but a file the user chose is not
+  // passed over in silence either: it is a problem, named.
+  void special_file(const std::string& path, std::string_view rel, const struct stat& st) {
+    if (matches_any(options_.exclude, rel)) return;
+    if (!options_.include.empty() && !matches_any(options_.include, rel)) return;
+    const char* what = S_ISFIFO(st.st_mode)  ? "a named pipe"
+                       : S_ISSOCK(st.st_mode) ? "a socket"
+                       : S_ISCHR(st.st_mode)  ? "a character device"
+                       : S_ISBLK(st.st_mode)  ? "a block device"
+                                              : "not a regular file";
+    problem(path, std::string(what) + ", not read");
   }
 
   // Lists a folder and pushes its frame; a folder that cannot be listed is a problem.

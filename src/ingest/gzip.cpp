@@ -61,18 +61,34 @@ Result<std::size_t> GzipInflater::read(char* dst, std::size_t want) {
   return static_cast<std::size_t>(asked - z.avail_out);
 }
 
-Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked) {
+Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked,
+                           std::int64_t keep, bool* cut) {
   GzipInflater inflater(path, [bytes]() mutable -> Result<std::string_view> {
     const std::string_view piece = bytes.substr(0, std::size_t{1} << 30);
     bytes.remove_prefix(piece.size());
     return piece;
   });
+  if (cut != nullptr) *cut = false;
+  constexpr std::size_t kPiece = 65536;
+  // Grown by doubling up to the bound and no further: a string left to
+  // double by itself would hold up to twice the limit at its last step.
+  const std::int64_t bound = keep > 0 && (max_unpacked <= 0 || keep < max_unpacked) ? keep : max_unpacked;
   std::string out;
-  char buf[65536];
+  char buf[kPiece];
   for (;;) {
     auto got = inflater.read(buf, sizeof buf);
     if (!got) return got.status();
     if (*got == 0) return out;
+    if (keep > 0 && static_cast<std::int64_t>(out.size() + *got) > keep) {
+      out.append(buf, static_cast<std::size_t>(keep) - out.size());
+      *cut = true;
+      return out;
+    }
+    if (out.size() + *got > out.capacity()) {
+      std::size_t want = std::max<std::size_t>(out.capacity() * 2, std::size_t{1} << 20);
+      if (bound > 0) want = std::min(want, static_cast<std::size_t>(bound) + kPiece);
+      out.reserve(std::max(want, out.size() + *got));
+    }
     out.append(buf, *got);
     if (max_unpacked > 0 && static_cast<std::int64_t>(out.size()) > max_unpacked)
       return Status::Limit(path + ": gzip data expands past " + std::to_string(max_unpacked) +

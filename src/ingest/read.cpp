@@ -183,6 +183,19 @@ Format format_of(std::string_view name, std::string_view bytes) {
   return Format::kText;  // .txt, .text, no extension, and anything that decodes as text
 }
 
+// The warning for text cut at the limit, whether the cut came while
+// unpacking or after reading (cap_text says it once).
+std::string text_cut_warning(std::int64_t max_bytes) {
+  return "extracted text cut at the limit of " + std::to_string(max_bytes) + " bytes (raise it with --max-text-mb)";
+}
+
+// Formats whose text comes from a prefix of their bytes: a prefix of the
+// file gives a prefix of the text.
+bool is_text_format(Format f) {
+  return f == Format::kText || f == Format::kMarkdown || f == Format::kJsonl || f == Format::kHtml ||
+         f == Format::kMbox;
+}
+
 // Reads `bytes` as the format `name` implies; `path` names the file in
 // messages. A gzip file is unpacked once and read by its inner name.
 Result<ingest::Parsed> parse(std::string_view bytes, std::string_view name, const std::string& path,
@@ -191,11 +204,25 @@ Result<ingest::Parsed> parse(std::string_view bytes, std::string_view name, cons
   switch (format) {
     case Format::kGzip: {
       if (inside_gzip) return Status::Unsupported(path + ": gzip inside gzip is not read");
-      auto inner = ingest::gunzip(bytes, path, options.max_unpacked_bytes);
-      if (!inner) return inner.status();
       const std::string ext = lower_extension(name);
       const std::string_view inner_name = ext == ".gz" ? name.substr(0, name.size() - 3) : name;
-      return parse(*inner, inner_name, path, options, true);
+      // Text formats keep at most the text limit: unpacked as a stream and
+      // stopped there (the rest would be cut anyway). A format read whole
+      // (PDF, zip container) is unpacked whole, within max_unpacked_bytes.
+      bool cut = false;
+      auto inner = ingest::gunzip(bytes, path, options.max_unpacked_bytes, options.max_text_bytes, &cut);
+      if (!inner) return inner.status();
+      if (cut && !is_text_format(format_of(inner_name, *inner))) {
+        inner = ingest::gunzip(bytes, path, options.max_unpacked_bytes);
+        if (!inner) return inner.status();
+        cut = false;
+      }
+      if (cut) {  // end on a line, as the text before the limit would
+        if (const std::size_t nl = inner->rfind('\n'); nl != std::string::npos) inner->resize(nl + 1);
+      }
+      auto parsed = parse(*inner, inner_name, path, options, true);
+      if (parsed && cut) parsed->warnings.push_back(text_cut_warning(options.max_text_bytes));
+      return parsed;
     }
     case Format::kPdf: return ingest::read_pdf(bytes, path, options);
     case Format::kZip: return ingest::read_zip_document(bytes, path, options);
@@ -229,10 +256,11 @@ void cap_text(std::vector<Document>& docs, std::int64_t max_bytes, std::vector<s
     }
     d.body.resize(ingest::cut_utf8(d.body, left > d.title.size() ? left - d.title.size() : 0).size());
     while (!d.page_starts.empty() && d.page_starts.back() > d.body.size()) d.page_starts.pop_back();
-    std::string warning = "extracted text cut at the limit of " + std::to_string(max_bytes) +
-                          " bytes (raise it with --max-text-mb)";
+    std::string warning = text_cut_warning(max_bytes);
     if (const std::size_t dropped = docs.size() - i - 1; dropped > 0)
       warning += "; " + std::to_string(dropped) + (dropped == 1 ? " document" : " documents") + " dropped";
+    // Cut already while unpacking: one warning, the fuller one.
+    std::erase(warnings, text_cut_warning(max_bytes));
     warnings.push_back(std::move(warning));
     docs.resize(i + 1);
     return;

@@ -80,8 +80,14 @@ Result<Parsed> read_pdf(std::string_view bytes, const std::string& path, const R
 Result<Parsed> read_zip_document(std::string_view bytes, const std::string& path, const ReadOptions& options);
 // One message (.eml), or each message of an mbox file with ids "<path>#<n>".
 Result<Parsed> read_mail(std::string_view bytes, const std::string& path, const ReadOptions& options, bool mbox);
-// The decompressed bytes of a gzip file (all members).
-Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked);
+// The decompressed bytes of a gzip file (all members): Limit when they pass
+// `max_unpacked` (0: no limit). With `keep` > 0, unpacking stops after
+// `keep` bytes and *cut (REQUIRED then) says whether more followed: the
+// text formats need no more than the text limit, and a small file that
+// unpacks to gigabytes must not be held whole. Never holds more than the
+// smaller bound plus 64 KiB.
+Result<std::string> gunzip(std::string_view bytes, const std::string& path, std::int64_t max_unpacked,
+                           std::int64_t keep = 0, bool* cut = nullptr);
 
 // gzip data (every member of a multi-member file) unpacked as it is pulled,
 // for files too large to hold unpacked. `input` gives the next compressed

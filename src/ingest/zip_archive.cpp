@@ -2,6 +2,8 @@
 
 #include <zip.h>
 
+#include <algorithm>
+
 namespace lode::ingest {
 
 struct ZipArchive::Impl {
@@ -47,13 +49,22 @@ bool ZipArchive::has(const std::string& name) const { return zip_name_locate(imp
 
 Result<std::string> ZipArchive::read(const std::string& name) {
   auto& m = *impl_;
+  const auto budget_exceeded = [](const Impl& z) {
+    return Status::Limit(z.path + ": zip container expands past " + std::to_string(z.limit) +
+                         " bytes (limit on unpacked size; a zip bomb?)");
+  };
   const zip_int64_t index = zip_name_locate(m.zip, name.c_str(), 0);
   if (index < 0) return Status::NotFound(m.path + ": no entry '" + name + "' in the container");
   zip_stat_t st;
   zip_stat_init(&st);
-  if (zip_stat_index(m.zip, static_cast<zip_uint64_t>(index), 0, &st) == 0 && (st.valid & ZIP_STAT_ENCRYPTION_METHOD) &&
-      st.encryption_method != ZIP_EM_NONE)
+  const bool stat_ok = zip_stat_index(m.zip, static_cast<zip_uint64_t>(index), 0, &st) == 0;
+  if (stat_ok && (st.valid & ZIP_STAT_ENCRYPTION_METHOD) && st.encryption_method != ZIP_EM_NONE)
     return Status::Unsupported(m.path + ": password-protected (entry '" + name + "' is encrypted)");
+  // An entry that says it unpacks past what is left is refused before a
+  // byte is inflated; one that lies about its size is stopped as it
+  // unpacks, below.
+  if (m.budget >= 0 && stat_ok && (st.valid & ZIP_STAT_SIZE) && st.size > static_cast<zip_uint64_t>(m.budget))
+    return budget_exceeded(m);
   zip_file_t* f = zip_fopen_index(m.zip, static_cast<zip_uint64_t>(index), 0);
   if (f == nullptr)
     return Status::Corruption(m.path + ": cannot open entry '" + name + "' (" + zip_strerror(m.zip) + ")");
@@ -71,9 +82,14 @@ Result<std::string> ZipArchive::read(const std::string& name) {
       m.budget -= got;
       if (m.budget < 0) {
         zip_fclose(f);
-        return Status::Limit(m.path + ": zip container expands past " + std::to_string(m.limit) +
-                             " bytes (limit on unpacked size; a zip bomb?)");
+        return budget_exceeded(m);
       }
+      // Grown by doubling up to the budget and no further: left to double
+      // by itself, the string could hold twice the limit.
+      if (out.size() + static_cast<std::size_t>(got) > out.capacity())
+        out.reserve(std::max(out.size() + static_cast<std::size_t>(got),
+                             std::min(std::max<std::size_t>(out.capacity() * 2, sizeof buf),
+                                      out.size() + static_cast<std::size_t>(m.budget) + sizeof buf)));
     }
     out.append(buf, static_cast<std::size_t>(got));
   }

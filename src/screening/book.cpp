@@ -7,6 +7,7 @@
 #include <chrono>
 #include <filesystem>
 
+#include "index/schema.h"
 #include "screening/book_impl.h"
 #include "screening/scope.h"
 #include "screening/tables.h"
@@ -38,7 +39,9 @@ Result<std::unique_ptr<SiftBook>> SiftBook::open(const std::string& index_path, 
   if (!std::filesystem::exists(index_path, ec))
     return Status::NotFound(index_path + ": no index here (lode index FOLDER makes one)");
   auto impl = std::make_unique<Impl>();
-  auto db = sql::Db::open(index_path, writable ? SQLITE_OPEN_READWRITE : SQLITE_OPEN_READONLY);
+  // Read-only: as every reader opens an index, so a folder the user may
+  // only read still lists sifts (index/schema.h).
+  auto db = writable ? sql::Db::open(index_path, SQLITE_OPEN_READWRITE) : schema::open_for_reading(index_path);
   if (!db) return db.status();
   impl->db = std::move(db.value());
   impl->writable = writable;

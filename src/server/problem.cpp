@@ -1,5 +1,7 @@
 #include "server/problem.h"
 
+#include "lode/json_text.h"
+
 namespace lode::server {
 
 Problem bad_parameter(std::string parameter, std::string detail) {
@@ -25,9 +27,7 @@ Problem from_status(const Status& s, std::string parameter) {
   }
 }
 
-std::string json_text(const nlohmann::json& body) {
-  return body.dump(-1, ' ', false, nlohmann::json::error_handler_t::replace);
-}
+std::string json_text(const nlohmann::json& body) { return dump_json(body); }
 
 void send_json(httplib::Response& res, const nlohmann::json& body) { res.set_content(json_text(body), "application/json"); }
 

@@ -42,7 +42,8 @@ std::string problem_response(const Problem& p, std::string_view extra_headers = 
 
 // Writes `p` to `res` as application/problem+json (instance = request path).
 void send_problem(const httplib::Request& req, httplib::Response& res, const Problem& p);
-// JSON text as sent (invalid UTF-8, should any reach here, is replaced).
+// JSON text as sent: dump_json() (lode/json_text.h), names that are not
+// UTF-8 escaped reversibly.
 std::string json_text(const nlohmann::json& body);
 // Writes a JSON body (json_text).
 void send_json(httplib::Response& res, const nlohmann::json& body);

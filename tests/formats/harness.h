@@ -2,6 +2,8 @@
 // it, one-call indexing and searching.
 #pragma once
 
+#include <unistd.h>
+
 #include <doctest/doctest.h>
 
 #include <filesystem>
@@ -11,6 +13,7 @@
 #include <string>
 #include <vector>
 
+#include "core/util.h"
 #include "lode/indexer.h"
 #include "lode/ranking.h"
 
@@ -52,6 +55,27 @@ class Scratch {
  private:
   fs::path root_;
 };
+
+// Runs the real `lode ARGS` (stderr joined to stdout), started through
+// `prefix` if given (a command that runs its arguments).
+inline std::string lode_run(const std::string& args, int* rc, const std::string& prefix = "") {
+  return lode::test::run(prefix + std::string(LODE_BINARY) + " " + args + " 2>&1", rc);
+}
+
+// Starts the real `lode ARGS` (no shell) and returns its pid; the caller
+// waits for it.
+inline pid_t start_lode(const std::vector<std::string>& args) {
+  const pid_t pid = fork();
+  REQUIRE(pid >= 0);
+  if (pid == 0) {
+    std::vector<char*> argv{const_cast<char*>(LODE_BINARY)};
+    for (const auto& a : args) argv.push_back(const_cast<char*>(a.c_str()));
+    argv.push_back(nullptr);
+    execv(LODE_BINARY, argv.data());
+    _exit(127);
+  }
+  return pid;
+}
 
 inline IndexReport index_tree(const std::string& index, const std::vector<std::string>& roots,
                               IndexRunOptions options = {}) {

@@ -16,7 +16,7 @@ using namespace lode::testing;
 
 struct Snapshot {
   lode::CollectionStats stats;
-  std::map<std::string, std::string> docs;  // external id -> title + "\x1f" + body
+  std::map<std::string, std::string> docs;  // external id -> kind + "\x1f" + title + "\x1f" + body
   std::map<std::string, std::vector<std::pair<std::string, double>>> results;
 };
 
@@ -35,7 +35,7 @@ Snapshot snapshot(const std::string& index, const std::vector<std::string>& quer
       auto title = (*reader)->stored_text(d, lode::Field::kTitle);
       auto body = (*reader)->stored_text(d, lode::Field::kBody);
       REQUIRE(body.ok());
-      snap.docs[info->external_id] = *title + "\x1f" + *body;
+      snap.docs[info->external_id] = info->kind + "\x1f" + *title + "\x1f" + *body;
     }
   }
   for (auto& q : queries)
@@ -91,6 +91,28 @@ TEST_CASE("edit, rename, delete and add between runs equal a fresh index") {
   compare(snapshot(s.index(), queries), snapshot(fresh, queries));
   // The renamed document answers under its new id.
   CHECK(hit_ids(search(s.index(), "survey")) == std::vector<std::string>{"archive/reef.pdf"});
+}
+
+TEST_CASE("a rename that changes how a file is read reads it again and equals a fresh index") {
+  Scratch s;
+  s.write("notes/signals.md", "# Fog signals\n\nthe *horn* sounded twice in the fog\n");
+  s.write("notes/log.txt", "# not a heading\nthe lamp was trimmed at dusk\n");
+  s.write("notes/tide.txt", "tide table for the week, high water at noon\n");
+  s.write("notes/Keeper.TXT", "the keeper's log, written in capitals\n");
+  const std::vector<std::string> queries = {"fog", "horn", "lamp", "heading", "tide", "keeper"};
+  REQUIRE(index_tree(s.index(), {s.tree()}).added == 4);
+  // Markdown to text, text to Markdown, text to a media name (skipped by a
+  // fresh run), and a change of case only (read the same way: a move).
+  std::filesystem::rename(s.file("notes/signals.md"), s.file("notes/signals.txt"));
+  std::filesystem::rename(s.file("notes/log.txt"), s.file("notes/log.md"));
+  std::filesystem::rename(s.file("notes/tide.txt"), s.file("notes/tide.png"));
+  std::filesystem::rename(s.file("notes/Keeper.TXT"), s.file("notes/keeper.txt"));
+  auto second = index_tree(s.index(), {s.tree()});
+  CHECK(second.renamed == 1);
+  const std::string fresh = s.other("fresh.sqlite");
+  index_tree(fresh, {s.tree()});
+  compare(snapshot(s.index(), queries), snapshot(fresh, queries));
+  CHECK(hit_ids(search(s.index(), "tide")).empty());
 }
 
 TEST_CASE("a run with nothing changed reads nothing") {

@@ -202,3 +202,19 @@ TEST_CASE("an unreadable folder is a problem and the crawl goes on") {
     }
   }
 }
+
+TEST_CASE("a named pipe in a folder is not read but named as a problem, unless excluded") {
+  TempDir d;
+  make_tree(d);
+  const std::string fifo = d.path("notes/incoming.txt");
+  REQUIRE(::mkfifo(fifo.c_str(), 0644) == 0);
+  auto r = crawl_ok({d.root().string()}, {});
+  const auto listed = relative_paths(r, d);
+  CHECK(std::find(listed.begin(), listed.end(), "notes/incoming.txt") == listed.end());
+  REQUIRE(r.problems.size() == 1);
+  CHECK(r.problems[0].path == std::filesystem::path(fifo).lexically_normal().string());
+  CHECK(r.problems[0].reason.find("named pipe") != std::string::npos);
+  CrawlOptions skip;
+  skip.exclude = {"notes/incoming.txt"};
+  CHECK(crawl_ok({d.root().string()}, skip).problems.empty());
+}

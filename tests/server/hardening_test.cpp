@@ -132,3 +132,27 @@ TEST_CASE("Hardening: slow and idle connections beyond the worker count do not s
   trickling = false;
   trickle.join();
 }
+
+TEST_CASE("Hardening: a file name that is not UTF-8 comes back escaped, and the escaped id opens the document") {
+  TempDir dir;
+  const std::string latin1 = "caf\xE9 journal.txt";  // a name saved by an old Latin-1 system
+  write_file(dir.path() / "tree" / latin1, "the barnacle count on the north pier, in the cafe's own hand\n");
+  write_file(dir.path() / "tree" / "other.txt", "the south pier had no barnacle count this year\n");
+  const std::string index = dir.str("names.sqlite");
+  int rc = -1;
+  std::string out = run(kLode + " --index " + index + " index -q " + dir.str("tree") + " 2>&1", &rc);
+  REQUIRE_MESSAGE(rc == 0, out);
+  LiveServer server(index);
+  auto c = server.client();
+  auto found = get(c, "/api/v1/search", {{"q", "north barnacle"}});
+  REQUIRE(found->status == 200);
+  const auto hits = body_json(found)["hits"];
+  REQUIRE(!hits.empty());
+  const std::string doc = hits[0]["doc"].get<std::string>();
+  // The byte E9 as U+F7E9 (lode/names.h), nothing replaced by U+FFFD.
+  CHECK(doc == "caf\xEF\x9F\xA9 journal.txt");
+  CHECK(found->body.find("\xEF\xBF\xBD") == std::string::npos);
+  auto d = get(c, "/api/v1/document", {{"doc", doc}});
+  CHECK(d->status == 200);
+  CHECK(body_json(d)["doc"].get<std::string>() == doc);
+}
