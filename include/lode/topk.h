@@ -333,8 +333,6 @@ class Walk {
   PostingCursor& cursor(std::size_t m) { return *parts_[order_[m]].cursor; }
   // A document whose score is at most `bound` cannot enter the top k.
   bool cannot_enter(double bound) const { return full_ && bound + std::abs(bound) * kSlack < theta_; }
-  // Bound of a document found only in the first m parts of order_.
-  double lazy_bound(std::size_t m) const { return m == 0 ? 0.0 : prefix_[m - 1]; }
   // Reads rest part p's list as the term's whole list again.
   void unsplit(std::size_t p) {
     Part& rest = parts_[p];
