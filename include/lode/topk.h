@@ -228,18 +228,15 @@ class Walk {
   // could score more than one in none (else, e.g. a rare word without a
   // tier beside frequent ones, the first pass is wasted work).
   bool tops_may_decide() {
-    auto top = [&](const Part& p) { return p.partner != kNone && !p.rest && !p.dropped; };
-    double in_tops = 0, outside = 0;
     acc_clear();
     for (std::size_t p = 0; p < parts_.size(); ++p)
-      if (top(parts_[p])) raise(parts_[p].term, bound_[p]);
-    in_tops = value();
+      if (is_top(parts_[p])) raise(parts_[p].term, bound_[p]);
+    const double in_tops = value();
     if (in_tops == 0) return false;
     acc_clear();
     for (std::size_t p = 0; p < parts_.size(); ++p)
-      if (!parts_[p].dropped && !top(parts_[p])) raise(parts_[p].term, bound_[p]);
-    outside = value();
-    return in_tops > outside;
+      if (!parts_[p].dropped && !is_top(parts_[p])) raise(parts_[p].term, bound_[p]);
+    return in_tops > value();
   }
 
   // A heap whose container can be read (the documents of a first pass).
@@ -255,7 +252,7 @@ class Walk {
     order_.clear();
     for (std::size_t p = 0; p < parts_.size(); ++p)
       if (!parts_[p].dropped) order_.push_back(p);
-    auto top = [&](std::size_t p) { return parts_[p].partner != kNone && !parts_[p].rest; };
+    auto top = [&](std::size_t p) { return is_top(parts_[p]); };
     std::stable_sort(order_.begin(), order_.end(), [&](std::size_t a, std::size_t b) {
       if (tops_last && top(a) != top(b)) return top(b);
       return key_[a] < key_[b];
@@ -329,6 +326,8 @@ class Walk {
     std::size_t partner;                     // the other part of a split term, else kNone
     bool dropped = false;                    // a top part not worth reading (unsplit)
   };
+  // A split term's top part (still read).
+  static bool is_top(const Part& p) { return p.partner != kNone && !p.rest && !p.dropped; }
 
   PostingCursor& cursor(std::size_t m) { return *parts_[order_[m]].cursor; }
   // A document whose score is at most `bound` cannot enter the top k.
@@ -465,7 +464,7 @@ class Walk {
         tfs_[i] = c.tf();
         resolved_[i] = 1;
         set(i, doc_unit(i, tfs_[i], doc));
-      } else if (part.partner != kNone && !part.rest) {
+      } else if (is_top(part)) {
         set(i, bound_[part.partner]);  // not in the top part: the rest (looked at next) bounds it
       } else {
         resolved_[i] = 1;
