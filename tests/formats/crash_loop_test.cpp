@@ -23,10 +23,22 @@ const std::vector<std::string> kWords = {"lamp",  "keeper", "tide",   "fog",    
                                          "flood", "swell",  "lantern", "quay",  "wick",  "lens",  "brass",
                                          "oil",   "log",    "north",  "south",  "mist",  "rock",  "kelp"};
 
+// Every other body word is drawn from thousands of made-up ones, so a run
+// fills its one-megabyte batch several times and a kill can land between
+// commits as well as inside one.
+std::string filler(std::mt19937& rng) {
+  static constexpr const char* kSyllables[] = {"ba", "ko", "ri", "tu", "me", "sa", "lo", "ni", "pe", "du", "ga", "vi"};
+  std::uniform_int_distribution<int> syllable(0, 11), count(2, 4);
+  std::string w;
+  for (int i = count(rng); i > 0; --i) w += kSyllables[syllable(rng)];
+  return w;
+}
+
 std::string note(std::mt19937& rng, std::size_t words) {
   std::uniform_int_distribution<std::size_t> pick(0, kWords.size() - 1);
   std::string out = kWords[pick(rng)] + " " + kWords[pick(rng)] + "\n";  // the title line
-  for (std::size_t i = 0; i < words; ++i) out += kWords[pick(rng)] + (i % 12 == 11 ? ".\n" : " ");
+  for (std::size_t i = 0; i < words; ++i)
+    out += (i % 2 ? filler(rng) : kWords[pick(rng)]) + (i % 12 == 11 ? ".\n" : " ");
   return out + "\n";
 }
 
@@ -65,28 +77,31 @@ TEST_CASE("lode index killed at random points: every kill leaves a sound index, 
   constexpr int kFiles = 160;
   for (int i = 0; i < kFiles; ++i) s.write("notes/n" + std::to_string(i) + ".txt", note(rng, 2500));
   const std::vector<std::string> args = {"--index", s.index(), "index", "-q", "-j", "2", "--batch-mb", "1", s.tree()};
-  std::uniform_int_distribution<int> delay_ms(30, 700), file(0, kFiles - 1);
+  std::uniform_int_distribution<int> file(0, kFiles - 1), nth_commit(1, 3), after_ms(0, 15);
   // A first run to the end: a run killed before its first commit leaves an
   // empty database, which the next run fills (not damage, nothing to verify).
   int rc = -1;
   std::string out = lode_run("--index '" + s.index() + "' index -q '" + s.tree() + "'", &rc);
   REQUIRE_MESSAGE(rc == 0, out);
+  // What a commit changes, seen by a reader.
+  auto committed = [&] {
+    auto reader = lode::IndexReader::open(s.index());
+    REQUIRE(reader.ok());
+    auto scope = (*reader)->begin();
+    REQUIRE(scope.ok());
+    const auto st = (*reader)->stats();
+    return std::pair(st.documents, st.total_length);
+  };
+  // Kills are timed by what a reader sees, not by the clock (a fixed delay
+  // misses on a machine faster or slower than the one it was chosen on):
+  // each run is killed a random 0-15 ms after its first, second or third
+  // commit, so kills land inside a commit, inside a batch and between them.
+  constexpr int kRounds = 20;
   int kills = 0;
-  for (int round = 0; round < 20; ++round) {
-    const pid_t pid = start_lode(args);
-    std::this_thread::sleep_for(std::chrono::milliseconds(delay_ms(rng)));
-    const bool killed = ::kill(pid, SIGKILL) == 0;
-    int status = 0;
-    REQUIRE(::waitpid(pid, &status, 0) == pid);
-    kills += killed && WIFSIGNALED(status);
+  for (int round = 0; round < kRounds; ++round) {
     CAPTURE(round);
-    auto report = lode::verify_index(s.index());
-    REQUIRE_MESSAGE(report.ok(), report.status().to_string());
-    std::string findings;
-    for (const auto& f : report->findings) findings += f + "\n";
-    REQUIRE_MESSAGE(report->ok(), findings);
-    // Between runs: 40 files changed (work enough for a run to be cut
-    // short), one added, one renamed, one removed.
+    // Before each run: 40 files changed (work enough for several commits),
+    // one added, one renamed, one removed.
     for (int k = 0; k < 40; ++k) {
       const std::string changed = "notes/n" + std::to_string(file(rng)) + ".txt";
       if (std::filesystem::exists(s.file(changed))) s.write(changed, note(rng, 2500));
@@ -98,9 +113,32 @@ TEST_CASE("lode index killed at random points: every kill leaves a sound index, 
       std::filesystem::rename(s.file(from), s.file("moved/r" + std::to_string(round) + ".txt"));
     const std::string gone = "notes/n" + std::to_string(file(rng)) + ".txt";
     std::filesystem::remove(s.file(gone));
+
+    const int kill_after = nth_commit(rng), delay = after_ms(rng);
+    auto seen = committed();
+    const pid_t pid = start_lode(args);
+    int status = 0, commits = 0;
+    while (::waitpid(pid, &status, WNOHANG) == 0) {
+      if (const auto now = committed(); now != seen) {
+        seen = now;
+        if (++commits == kill_after) {
+          std::this_thread::sleep_for(std::chrono::milliseconds(delay));
+          ::kill(pid, SIGKILL);
+          REQUIRE(::waitpid(pid, &status, 0) == pid);
+          break;
+        }
+      }
+      std::this_thread::sleep_for(std::chrono::milliseconds(1));
+    }
+    kills += WIFSIGNALED(status);
+    auto report = lode::verify_index(s.index());
+    REQUIRE_MESSAGE(report.ok(), report.status().to_string());
+    std::string findings;
+    for (const auto& f : report->findings) findings += f + "\n";
+    REQUIRE_MESSAGE(report->ok(), findings);
   }
-  MESSAGE(kills << " of 20 runs killed mid-way");
-  CHECK(kills >= 10);  // most runs must really be cut short, or the test proves little
+  MESSAGE(kills << " of " << kRounds << " runs killed after a commit");
+  CHECK(kills >= kRounds / 2);  // runs must really be cut short mid-way, or the test proves little
   out = lode_run("--index '" + s.index() + "' index -q --batch-mb 1 '" + s.tree() + "'", &rc);
   REQUIRE_MESSAGE(rc == 0, out);
   REQUIRE(lode::verify_index(s.index())->ok());
