@@ -4,11 +4,9 @@
 #include <map>
 #include <mutex>
 #include <unordered_map>
-#include <variant>
 
 #include "index/codec.h"
-#include "index/schema.h"
-#include "index/sqlite.h"
+#include "index/sqlite_store.h"
 #include "index/tier.h"
 #include "lode/index.h"
 #include "lode/names.h"
@@ -29,34 +27,28 @@ double CollectionStats::average_length(Field f) const {
                               static_cast<double>(documents);
 }
 
-// Fills a DocNorms from the norms rows (a friend of DocNorms).
+// Fills a DocNorms from the store's norms chunks (a friend of DocNorms).
 struct DocNormsLoader {
-  static Result<std::shared_ptr<const DocNorms>> load(sql::Stmt& q, DocId limit) {
+  static Result<std::shared_ptr<const DocNorms>> load(store::ReadStore& store, DocId limit) {
     auto n = std::make_shared<DocNorms>();
     n->limit_ = limit;
     for (auto& l : n->length_) l.assign(limit, 0);
     n->live_.assign((std::size_t{limit} + 63) / 64, 0);
-    while (q.step()) {
-      const auto chunk = static_cast<std::uint64_t>(q.i64(0));
-      const std::string_view data = q.blob(1);
+    LODE_RETURN_IF_ERROR(store.norms([&](std::uint64_t chunk, std::string_view data) {
       const std::uint64_t first = chunk * codec::kNormsPerChunk;
       // The writer stores whole chunks: a short one is damage, never "not live, length 0".
-      if (data.size() != codec::kNormsPerChunk * codec::kNormEntryBytes) {
-        q.reset();
+      if (data.size() != codec::kNormsPerChunk * codec::kNormEntryBytes)
         return Status::Corruption("norms chunk " + std::to_string(chunk) + ": " + std::to_string(data.size()) +
                                   " bytes, not " + std::to_string(codec::kNormsPerChunk * codec::kNormEntryBytes) +
                                   " (lode verify checks the whole index)");
-      }
       for (std::uint32_t slot = 0; slot < codec::kNormsPerChunk && first + slot < limit; ++slot) {
         const codec::NormEntry e = codec::get_norm(data, slot);
         const auto d = static_cast<DocId>(first + slot);
         for (std::size_t f = 0; f < kFieldCount; ++f) n->length_[f][d] = e.length[f];
         if (e.live) n->live_[d >> 6] |= std::uint64_t{1} << (d & 63);
       }
-    }
-    Status s = q.status();
-    q.reset();
-    if (!s.ok()) return s;
+      return Status();
+    }));
     return std::shared_ptr<const DocNorms>(std::move(n));
   }
 };
@@ -131,58 +123,38 @@ ReaderCache::Counts ReaderCache::counts() const {
 }
 
 struct IndexReader::Impl final : PositionSource {
-  sql::Db db;
-  IndexSettings settings;
-  schema::Counters counters;
+  std::unique_ptr<store::ReadStore> store;
+  store::Counters counters;
   bool in_scope = false;
   std::shared_ptr<ReaderCache> cache;
   std::shared_ptr<const DocNorms> norms;  // this snapshot's, once loaded
   TierOptions tier_options;
-  sql::Stmt q_term, q_term_by_id, q_doc, q_external, q_text, q_fwd, q_norms, q_pages, q_segments, q_positions;
 
-  Status prepare_all() {
-    return db.prepare_all({
-        {&q_term, "SELECT term_id, df, cf FROM terms WHERE field = ? AND term = ?"},
-        {&q_term_by_id, "SELECT field, term, df, cf FROM terms WHERE term_id = ?"},
-        {&q_doc, "SELECT d.external_id, d.title, d.kind, coalesce(f.path, ''), d.len_title, d.len_body, d.live, "
-                 "coalesce(m.author, ''), coalesce(m.date, 0), coalesce(m.pages, 0), coalesce(f.size, 0) "
-                 "FROM docs d LEFT JOIN files f ON f.file_id = d.file_id "
-                 "LEFT JOIN doc_meta m ON m.doc_id = d.doc_id WHERE d.doc_id = ?"},
-        {&q_pages, "SELECT page_map FROM doc_meta WHERE doc_id = ?"},
-        {&q_external, "SELECT doc_id FROM docs WHERE external_id = ? AND live = 1 ORDER BY doc_id LIMIT 1"},
-        {&q_text, "SELECT title, body FROM doc_text WHERE doc_id = ?"},
-        {&q_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
-        {&q_norms, "SELECT chunk, data FROM norms ORDER BY chunk"},
-        {&q_segments, "SELECT seg_id, first_doc, last_doc, count, head, data FROM postings WHERE term_id = ? "
-                      "ORDER BY first_doc"},
-        {&q_positions, "SELECT data FROM positions WHERE seg_id = ?"},
-    });
-  }
+  Result<std::string> segment_positions(std::int64_t key) override { return store->positions(key); }
 
-  Result<std::string> segment_positions(std::int64_t key) override {
-    q_positions.bind(1, key);
-    auto row = sql::one_row(q_positions, "positions of postings segment " + std::to_string(key));
-    if (!row) return Status::Corruption(row.status().message());
-    return std::string(q_positions.blob(0));
-  }
-
-  Result<std::shared_ptr<const PostingList>> load_list(TermId id) {
+  // The lists of `ids`, from the cache or in one read from the store.
+  Result<std::vector<std::shared_ptr<const PostingList>>> load_lists(std::span<const TermId> ids) {
     const std::uint64_t g = counters.generation;
-    if (auto hit = cache->impl_->find(g, id)) return hit;
-    std::vector<PostingList::StoredSegment> segs;
-    q_segments.bind(1, id);
-    while (q_segments.step())
-      segs.push_back(PostingList::StoredSegment{q_segments.i64(0), static_cast<DocId>(q_segments.i64(1)),
-                                                static_cast<DocId>(q_segments.i64(2)),
-                                                static_cast<std::uint32_t>(q_segments.i64(3)),
-                                                std::string(q_segments.blob(4)), std::string(q_segments.blob(5))});
-    Status s = q_segments.status();
-    q_segments.reset();
-    if (!s.ok()) return s;
-    auto list = PostingList::build(std::move(segs), "term " + std::to_string(id));
-    if (!list) return list.status();
-    cache->impl_->put(g, id, *list);
-    return list;
+    std::vector<std::shared_ptr<const PostingList>> out(ids.size());
+    std::vector<TermId> missing;
+    for (std::size_t i = 0; i < ids.size(); ++i)
+      if (!(out[i] = cache->impl_->find(g, ids[i]))) missing.push_back(ids[i]);
+    if (missing.empty()) return out;
+    auto segs = store->segments(missing);
+    if (!segs) return segs.status();
+    for (std::size_t i = 0, m = 0; i < ids.size(); ++i) {
+      if (out[i]) continue;
+      auto list = PostingList::build(std::move((*segs)[m++]), "term " + std::to_string(ids[i]));
+      if (!list) return list.status();
+      cache->impl_->put(g, ids[i], *list);
+      out[i] = std::move(list).value();
+    }
+    return out;
+  }
+  Result<std::shared_ptr<const PostingList>> load_list(TermId id) {
+    auto lists = load_lists(std::span<const TermId>(&id, 1));
+    if (!lists) return lists.status();
+    return std::move((*lists)[0]);
   }
 };
 
@@ -192,19 +164,12 @@ IndexReader::~IndexReader() {
 }
 
 Result<std::unique_ptr<IndexReader>> IndexReader::open(const std::string& path, const ReaderOptions& options) {
-  auto db = schema::open_for_reading(path);
-  if (!db) return db.status();
+  auto store = store::open_sqlite_reader(path);
+  if (!store) return store.status();
   auto impl = std::make_unique<Impl>();
+  impl->store = std::move(store).value();
   impl->cache = options.cache ? options.cache : std::make_shared<ReaderCache>();
   impl->tier_options = TierOptions{options.tier_min_postings, options.tier_share};
-  impl->db = std::move(db.value());
-  auto have = schema::exists(impl->db);
-  if (!have) return have.status();
-  if (!*have) return Status::Corruption(path + ": not a lode index");
-  auto settings = schema::load_settings(impl->db);
-  if (!settings) return settings.status();
-  impl->settings = settings.value();
-  LODE_RETURN_IF_ERROR(impl->prepare_all());
   return std::unique_ptr<IndexReader>(new IndexReader(std::move(impl)));
 }
 
@@ -215,11 +180,11 @@ IndexReader::ReadScope::~ReadScope() {
 Result<IndexReader::ReadScope> IndexReader::begin() {
   auto& m = *impl_;
   if (m.in_scope) return Status::InvalidArgument("read scope already active on this reader");
-  LODE_RETURN_IF_ERROR(m.db.exec("BEGIN"));
+  LODE_RETURN_IF_ERROR(m.store->begin());
   m.in_scope = true;
   ReadScope scope(this);
   // The first read fixes the snapshot, and its generation which caches are valid.
-  auto counters = schema::load_counters(m.db);
+  auto counters = m.store->counters();
   if (!counters) return counters.status();
   m.counters = counters.value();
   m.norms.reset();  // loaded again (or found in the cache) when first asked for
@@ -227,13 +192,13 @@ Result<IndexReader::ReadScope> IndexReader::begin() {
 }
 
 void IndexReader::end_scope() {
-  (void)impl_->db.exec("COMMIT");
+  impl_->store->end();
   impl_->in_scope = false;
   impl_->norms.reset();
 }
 
-const IndexSettings& IndexReader::settings() const { return impl_->settings; }
-const std::string& IndexReader::path() const { return impl_->db.path(); }
+const IndexSettings& IndexReader::settings() const { return impl_->store->settings(); }
+const std::string& IndexReader::path() const { return impl_->store->location(); }
 
 CollectionStats IndexReader::stats() const {
   const auto& c = impl_->counters;
@@ -245,34 +210,18 @@ CollectionStats IndexReader::stats() const {
   s.postings = c.postings;
   s.dead_documents = c.dead_documents;
   s.generation = c.generation;
-  s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
+  s.bytes_on_disk = impl_->store->bytes_on_disk();
   return s;
 }
 
 Result<std::optional<TermInfo>> IndexReader::term(Field field, std::string_view term) {
-  auto& q = impl_->q_term;
-  q.bind(1, static_cast<std::int64_t>(field)).bind(2, term);
-  std::optional<TermInfo> out;
-  if (q.step())
-    out = TermInfo{q.i64(0), field, std::string(term), static_cast<std::uint64_t>(q.i64(1)),
-                   static_cast<std::uint64_t>(q.i64(2))};
-  Status s = q.status();
-  q.reset();
-  if (!s.ok()) return s;
-  return out;
+  const store::TermKey key{field, term};
+  auto found = impl_->store->terms(std::span<const store::TermKey>(&key, 1));
+  if (!found) return found.status();
+  return std::move((*found)[0]);
 }
 
-Result<TermInfo> IndexReader::term_by_id(TermId id) {
-  auto& q = impl_->q_term_by_id;
-  q.bind(1, id);
-  auto row = sql::one_row(q, "term id " + std::to_string(id));
-  if (!row) return row.status();
-  auto f = q.i64(0);
-  if (f < 0 || f >= kFieldCount)
-    return Status::Corruption("term " + std::to_string(id) + ": bad field " + std::to_string(f));
-  return TermInfo{id, static_cast<Field>(f), std::string(q.text(1)), static_cast<std::uint64_t>(q.i64(2)),
-                  static_cast<std::uint64_t>(q.i64(3))};
-}
+Result<TermInfo> IndexReader::term_by_id(TermId id) { return impl_->store->term_by_id(id); }
 
 std::unique_ptr<PostingCursor> IndexReader::postings(const TermInfo& term) {
   auto list = impl_->load_list(term.id);
@@ -281,14 +230,7 @@ std::unique_ptr<PostingCursor> IndexReader::postings(const TermInfo& term) {
 }
 
 Result<std::vector<std::shared_ptr<const PostingList>>> IndexReader::postings_lists(const std::vector<TermId>& terms) {
-  std::vector<std::shared_ptr<const PostingList>> out;
-  out.reserve(terms.size());
-  for (TermId id : terms) {
-    auto list = impl_->load_list(id);
-    if (!list) return list.status();
-    out.push_back(std::move(list).value());
-  }
-  return out;
+  return impl_->load_lists(terms);
 }
 
 std::unique_ptr<PostingCursor> IndexReader::cursor(std::shared_ptr<const PostingList> list) {
@@ -364,7 +306,7 @@ Result<const DocNorms*> IndexReader::norms() {
     m.norms = c.norms;
   }
   if (!m.norms) {
-    auto loaded = DocNormsLoader::load(m.q_norms, static_cast<DocId>(m.counters.next_doc_id));
+    auto loaded = DocNormsLoader::load(*m.store, static_cast<DocId>(m.counters.next_doc_id));
     if (!loaded) return loaded.status();
     m.norms = std::move(loaded).value();
     std::lock_guard lock(c.mu);
@@ -384,33 +326,14 @@ std::uint32_t IndexReader::length(DocId doc, Field field) {
   return n.ok() ? (*n)->length(doc, field) : 0;
 }
 
-Result<DocumentInfo> IndexReader::document(DocId doc) {
-  auto& q = impl_->q_doc;
-  q.bind(1, std::int64_t{doc});
-  auto row = sql::one_row(q, "document " + std::to_string(doc));
-  if (!row) return row.status();
-  DocumentInfo d;
-  d.id = doc;
-  d.external_id = std::string(q.text(0));
-  d.title = std::string(q.text(1));
-  d.kind = std::string(q.text(2));
-  d.path = std::string(q.text(3));
-  d.length = {static_cast<std::uint32_t>(q.i64(4)), static_cast<std::uint32_t>(q.i64(5))};
-  d.live = q.i64(6) != 0;
-  d.author = std::string(q.text(7));
-  d.date = q.i64(8);
-  d.pages = static_cast<std::uint32_t>(q.i64(9));
-  d.size = q.i64(10);
-  return d;
-}
+Result<DocumentInfo> IndexReader::document(DocId doc) { return impl_->store->document(doc); }
 
 Result<DocId> IndexReader::find_external(std::string_view external_id) {
-  auto& q = impl_->q_external;
   auto lookup = [&](std::string_view id) -> Result<DocId> {
-    q.bind(1, id);
-    auto row = sql::one_row(q, "no document with id '" + escape_name(external_id) + "'");
-    if (!row) return row.status();
-    return static_cast<DocId>(q.i64(0));
+    auto found = impl_->store->find_external(id);
+    if (!found) return found.status();
+    if (!*found) return Status::NotFound("no document with id '" + escape_name(external_id) + "'");
+    return **found;
   };
   auto found = lookup(external_id);
   // An id printed as JSON holds the byte escape of lode/names.h where its
@@ -421,85 +344,33 @@ Result<DocId> IndexReader::find_external(std::string_view external_id) {
 }
 
 Result<std::string> IndexReader::stored_text(DocId doc, Field field) {
-  auto& q = impl_->q_text;
-  q.bind(1, std::int64_t{doc});
-  auto row = sql::one_row(q, "no stored text for document " + std::to_string(doc));
-  if (!row) return row.status();
-  return codec::decompress_text(q.blob(field == Field::kTitle ? 0 : 1));
+  auto blobs = impl_->store->stored_text(doc);
+  if (!blobs) return blobs.status();
+  return codec::decompress_text((*blobs)[static_cast<std::size_t>(field)]);
 }
 
 Result<std::vector<std::pair<TermId, std::uint32_t>>> IndexReader::forward(DocId doc, Field field) {
-  auto& q = impl_->q_fwd;
-  q.bind(1, std::int64_t{doc});
-  auto row = sql::one_row(q, "no forward index for document " + std::to_string(doc));
-  if (!row) return row.status();
+  auto blob = impl_->store->forward(doc);
+  if (!blob) return blob.status();
   std::vector<codec::ForwardList> lists;
-  LODE_RETURN_IF_ERROR(codec::decode_forward(q.blob(0), lists));
+  LODE_RETURN_IF_ERROR(codec::decode_forward(*blob, lists));
   return std::move(lists[static_cast<std::size_t>(field)]);
 }
 
 DocId IndexReader::doc_id_limit() const { return static_cast<DocId>(impl_->counters.next_doc_id); }
 
 Result<std::vector<PageStart>> IndexReader::pages(DocId doc) {
-  auto& q = impl_->q_pages;
-  q.bind(1, std::int64_t{doc});
+  auto map = impl_->store->page_map(doc);
+  if (!map) return map.status();
   std::vector<PageStart> out;
-  if (q.step()) {
-    Status s = codec::decode_page_map(q.blob(0), out);
-    q.reset();
-    if (!s.ok()) return Status::Corruption("document " + std::to_string(doc) + ": " + s.message());
-    return out;
-  }
-  Status s = q.status();
-  q.reset();
-  if (!s.ok()) return s;
+  if (map->empty()) return out;
+  Status s = codec::decode_page_map(*map, out);
+  if (!s.ok()) return Status::Corruption("document " + std::to_string(doc) + ": " + s.message());
   return out;
 }
 
-Result<std::vector<DocId>> IndexReader::filter(const DocFilter& f) {
-  // Fixed SQL pieces with bound values only: no user text in the SQL.
-  std::string sql =
-      "SELECT d.doc_id FROM docs d LEFT JOIN files fl ON fl.file_id = d.file_id "
-      "LEFT JOIN doc_meta m ON m.doc_id = d.doc_id WHERE d.live = 1";
-  std::vector<std::variant<std::string, std::int64_t>> binds;
-  auto any_of = [&](const std::vector<std::string>& values, const char* test, int uses) {
-    if (values.empty()) return;
-    sql += " AND (";
-    for (std::size_t i = 0; i < values.size(); ++i) {
-      sql += std::string(i ? " OR " : "") + "(" + test + ")";
-      for (int k = 0; k < uses; ++k) binds.emplace_back(values[i]);
-    }
-    sql += ")";
-  };
-  any_of(f.kinds, "d.kind = ?", 1);
-  any_of(f.prefixes,
-         "substr(d.external_id, 1, length(?)) = ? OR substr(coalesce(fl.path, ''), 1, length(?)) = ?", 4);
-  auto number = [&](std::optional<std::int64_t> v, const char* test) {
-    if (!v) return;
-    sql += std::string(" AND ") + test;
-    binds.emplace_back(*v);
-  };
-  number(f.date_from, "coalesce(m.date, 0) >= ?");
-  number(f.date_to, "coalesce(m.date, 0) <= ?");
-  if (f.pages_min) number(std::int64_t{*f.pages_min}, "coalesce(m.pages, 0) >= ?");
-  if (f.pages_max) number(std::int64_t{*f.pages_max}, "coalesce(m.pages, 0) <= ?");
-  number(f.size_min, "coalesce(fl.size, 0) >= ?");
-  number(f.size_max, "coalesce(fl.size, 0) <= ?");
-  if (!f.author.empty()) any_of({f.author}, "instr(lower(coalesce(m.author, '')), lower(?)) > 0", 1);
-  sql += " ORDER BY d.doc_id";
-  auto q = impl_->db.prepare(sql);
-  if (!q) return q.status();
-  for (std::size_t i = 0; i < binds.size(); ++i) {
-    const int at = static_cast<int>(i + 1);
-    if (auto* t = std::get_if<std::string>(&binds[i])) q->bind(at, std::string_view(*t));
-    else q->bind(at, std::get<std::int64_t>(binds[i]));
-  }
-  std::vector<DocId> out;
-  while (q->step()) out.push_back(static_cast<DocId>(q->i64(0)));
-  LODE_RETURN_IF_ERROR(q->status());
-  return out;
-}
+Result<std::vector<DocId>> IndexReader::filter(const DocFilter& f) { return impl_->store->filter(f); }
 
-Result<std::vector<RecordedProblem>> IndexReader::problems() { return schema::load_problems(impl_->db); }
+Result<std::vector<RecordedProblem>> IndexReader::problems() { return impl_->store->problems(); }
 
 }  // namespace lode

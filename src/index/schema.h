@@ -2,6 +2,7 @@
 #pragma once
 
 #include "index/sqlite.h"
+#include "index/store.h"
 #include "lode/index.h"
 
 namespace lode::schema {
@@ -14,16 +15,7 @@ Result<bool> exists(sql::Db& db);
 Result<IndexSettings> load_settings(sql::Db& db);
 
 // Counters kept in meta, exact at every commit.
-struct Counters {
-  std::uint64_t documents = 0;
-  std::uint64_t dead_documents = 0;
-  std::array<std::uint64_t, kFieldCount> total_length{};
-  std::uint64_t files = 0;
-  std::uint64_t terms = 0;
-  std::uint64_t postings = 0;
-  std::uint64_t next_doc_id = 1;  // doc id 0 is never used
-  std::uint64_t generation = 0;   // commits so far: caches keyed by it stay valid until it moves
-};
+using Counters = store::Counters;
 Result<Counters> load_counters(sql::Db& db);
 Status store_counters(sql::Db& db, const Counters& c);
 

@@ -25,12 +25,13 @@ class Stmt {
   // Binding: 1-based index as SQLite. Returns *this for chaining.
   Stmt& bind(int i, std::int64_t v) { sqlite3_bind_int64(s_, i, v); return *this; }
   Stmt& bind(int i, double v) { sqlite3_bind_double(s_, i, v); return *this; }
+  // An empty view binds an empty value, never NULL (whatever its data()).
   Stmt& bind(int i, std::string_view v) {
-    sqlite3_bind_text(s_, i, v.data(), static_cast<int>(v.size()), SQLITE_TRANSIENT);
+    sqlite3_bind_text(s_, i, v.data() ? v.data() : "", static_cast<int>(v.size()), SQLITE_TRANSIENT);
     return *this;
   }
   Stmt& bind_blob(int i, std::string_view v) {
-    sqlite3_bind_blob(s_, i, v.data(), static_cast<int>(v.size()), SQLITE_TRANSIENT);
+    sqlite3_bind_blob(s_, i, v.data() ? v.data() : "", static_cast<int>(v.size()), SQLITE_TRANSIENT);
     return *this;
   }
   // Steps once: true for a row, false when done; errors set status().

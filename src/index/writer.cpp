@@ -12,23 +12,19 @@
 #endif
 
 #include "index/codec.h"
-#include "index/lock.h"
 #include "index/posting_batch.h"
 #include "index/radix_sort.h"
-#include "index/schema.h"
 #include "index/segment.h"
-#include "index/sqlite.h"
+#include "index/sqlite_store.h"
 #include "lode/index.h"
 
 namespace lode {
 
 struct IndexWriter::Impl {
-  sql::Db db;
-  std::optional<WriterLock> lock;
-  IndexSettings settings;
+  std::unique_ptr<store::WriteStore> store;
   WriterOptions options;
   std::unique_ptr<Analyzer> analyzer;
-  schema::Counters counters;
+  store::Counters counters;
   bool in_txn = false;
 
   codec::TextCompressor compressor;
@@ -47,14 +43,8 @@ struct IndexWriter::Impl {
   std::vector<codec::ForwardList> per_field;
   std::vector<std::vector<std::uint64_t>> fwd_words;  // per field: term id << 32 | tf
   std::vector<std::uint64_t> fwd_scratch;
+  std::vector<std::pair<DocId, std::string>> fwd_rows;
 
-  sql::Stmt q_file, q_insert_file, q_update_file, q_delete_file, q_docs_of_file;
-  sql::Stmt q_insert_doc, q_insert_text, q_kill_doc, q_delete_text, q_delete_fwd, q_get_fwd;
-  sql::Stmt q_find_term, q_add_term, q_term_df, q_max_term, q_update_term, q_last_segment, q_get_positions;
-  sql::Stmt q_drop_segment, q_drop_positions, q_put_segment, q_put_positions, q_put_fwd, q_get_norms, q_put_norms;
-  sql::Stmt q_put_meta, q_delete_meta;
-
-  Status prepare_all();
   Status begin();
   Status remove_docs_of(std::int64_t file_id);
   // What a document needs that no index state does: its fields analyzed and
@@ -79,44 +69,9 @@ struct IndexWriter::Impl {
   Result<std::string*> norms_chunk(std::uint32_t chunk);
 };
 
-Status IndexWriter::Impl::prepare_all() {
-  return db.prepare_all({
-      {&q_file, "SELECT file_id, path, root, size, mtime_ns, hash, kind FROM files WHERE path = ?"},
-      {&q_insert_file, "INSERT INTO files(path, root, size, mtime_ns, hash, kind) VALUES(?,?,?,?,?,?)"},
-      {&q_update_file, "UPDATE files SET root=?, size=?, mtime_ns=?, hash=?, kind=? WHERE file_id=?"},
-      {&q_delete_file, "DELETE FROM files WHERE file_id = ?"},
-      {&q_docs_of_file, "SELECT doc_id, len_title, len_body FROM docs WHERE file_id = ? AND live = 1"},
-      {&q_insert_doc, "INSERT INTO docs(doc_id, file_id, external_id, title, kind, len_title, len_body, live) VALUES(?,?,?,?,?,?,?,1)"},
-      {&q_insert_text, "INSERT INTO doc_text(doc_id, title, body) VALUES(?,?,?)"},
-      {&q_kill_doc, "UPDATE docs SET live = 0 WHERE doc_id = ?"},
-      {&q_delete_text, "DELETE FROM doc_text WHERE doc_id = ?"},
-      {&q_delete_fwd, "DELETE FROM doc_terms WHERE doc_id = ?"},
-      {&q_get_fwd, "SELECT data FROM doc_terms WHERE doc_id = ?"},
-      // Plain statements, not an upsert with RETURNING: SQLite gathers
-      // RETURNING rows in a temporary table, opened and closed per call,
-      // which cost more than the lookup itself.
-      {&q_find_term, "SELECT term_id, df FROM terms WHERE field = ? AND term = ?"},
-      {&q_add_term, "INSERT INTO terms(field, term, df, cf) VALUES(?, ?, ?, ?)"},
-      {&q_term_df, "SELECT df FROM terms WHERE term_id = ?"},
-      {&q_max_term, "SELECT coalesce(max(term_id), 0) FROM terms"},
-      {&q_update_term, "UPDATE terms SET df = df + ?, cf = cf + ? WHERE term_id = ?"},
-      {&q_last_segment, "SELECT seg_id, first_doc, last_doc, count, head, data FROM postings WHERE term_id = ? ORDER BY first_doc DESC LIMIT 1"},
-      {&q_get_positions, "SELECT data FROM positions WHERE seg_id = ?"},
-      {&q_drop_segment, "DELETE FROM postings WHERE seg_id = ?"},
-      {&q_drop_positions, "DELETE FROM positions WHERE seg_id = ?"},
-      {&q_put_segment, "INSERT INTO postings(term_id, first_doc, last_doc, count, head, data) VALUES(?,?,?,?,?,?)"},
-      {&q_put_positions, "INSERT INTO positions(seg_id, data) VALUES(?,?)"},
-      {&q_put_fwd, "INSERT INTO doc_terms(doc_id, data) VALUES(?, ?)"},
-      {&q_get_norms, "SELECT data FROM norms WHERE chunk = ?"},
-      {&q_put_norms, "INSERT OR REPLACE INTO norms(chunk, data) VALUES(?, ?)"},
-      {&q_put_meta, "INSERT OR REPLACE INTO doc_meta(doc_id, author, date, pages, page_map) VALUES(?,?,?,?,?)"},
-      {&q_delete_meta, "DELETE FROM doc_meta WHERE doc_id = ?"},
-  });
-}
-
 Status IndexWriter::Impl::begin() {
   if (in_txn) return Status();
-  LODE_RETURN_IF_ERROR(db.exec("BEGIN IMMEDIATE"));
+  LODE_RETURN_IF_ERROR(store->begin());
   in_txn = true;
   return Status();
 }
@@ -124,70 +79,59 @@ Status IndexWriter::Impl::begin() {
 Result<std::string*> IndexWriter::Impl::norms_chunk(std::uint32_t chunk) {
   auto it = dirty_norms.find(chunk);
   if (it != dirty_norms.end()) return &it->second;
-  std::string data;
-  q_get_norms.bind(1, std::int64_t{chunk});
-  if (q_get_norms.step()) data = std::string(q_get_norms.blob(0));
-  Status s = q_get_norms.status();
-  q_get_norms.reset();
-  LODE_RETURN_IF_ERROR(s);
+  auto stored = store->norms_chunk(chunk);
+  if (!stored) return stored.status();
+  std::string data = std::move(stored).value();
   data.resize(codec::kNormsPerChunk * codec::kNormEntryBytes, '\0');
   return &dirty_norms.emplace(chunk, std::move(data)).first->second;
 }
 
+// Marks the file's live documents dead and takes their postings out of
+// df, cf and the counters, in one read of their forward lists and one
+// change per term.
 Status IndexWriter::Impl::remove_docs_of(std::int64_t file_id) {
-  struct Dead {
-    DocId id;
-    std::array<std::uint32_t, kFieldCount> len;
-  };
-  std::vector<Dead> dead;
-  q_docs_of_file.bind(1, file_id);
-  while (q_docs_of_file.step())
-    dead.push_back({static_cast<DocId>(q_docs_of_file.i64(0)),
-                    {static_cast<std::uint32_t>(q_docs_of_file.i64(1)),
-                     static_cast<std::uint32_t>(q_docs_of_file.i64(2))}});
-  Status s = q_docs_of_file.status();
-  q_docs_of_file.reset();
-  LODE_RETURN_IF_ERROR(s);
+  auto dead = store->live_documents(file_id);
+  if (!dead) return dead.status();
+  if (dead->empty()) return Status();
   // Documents still in the in-memory batch have no forward index yet.
-  for (auto& d : dead)
+  for (const auto& d : *dead)
     if (first_pending != 0 && d.id >= first_pending) {
       LODE_RETURN_IF_ERROR(flush());
       LODE_RETURN_IF_ERROR(begin());
       break;
     }
-  for (auto& d : dead) {
-    q_get_fwd.bind(1, std::int64_t{d.id});
-    std::string blob;
-    if (q_get_fwd.step()) blob = std::string(q_get_fwd.blob(0));
-    s = q_get_fwd.status();
-    q_get_fwd.reset();
-    LODE_RETURN_IF_ERROR(s);
-    std::vector<codec::ForwardList> fwd;
+  std::vector<DocId> ids;
+  for (const auto& d : *dead) ids.push_back(d.id);
+  auto blobs = store->forward(ids);
+  if (!blobs) return blobs.status();
+  std::map<TermId, store::TermDelta> deltas;
+  std::vector<codec::ForwardList> fwd;
+  for (const std::string& blob : *blobs) {
     LODE_RETURN_IF_ERROR(codec::decode_forward(blob, fwd));
     for (auto& list : fwd)
       for (auto& [term_id, tf] : list) {
-        LODE_RETURN_IF_ERROR(
-            q_update_term.bind(1, std::int64_t{-1}).bind(2, -static_cast<std::int64_t>(tf)).bind(3, term_id).run());
-        q_term_df.bind(1, term_id);
-        const bool found = q_term_df.step();
-        const std::int64_t df = found ? q_term_df.i64(0) : -1;
-        s = q_term_df.status();
-        q_term_df.reset();
-        LODE_RETURN_IF_ERROR(s);
-        if (!found) return Status::Corruption("forward index names missing term " + std::to_string(term_id));
-        if (df == 0) --counters.terms;
+        store::TermDelta& d = deltas[term_id];
+        d.id = term_id;
+        --d.df;
+        d.cf -= static_cast<std::int64_t>(tf);
         --counters.postings;
       }
-    LODE_RETURN_IF_ERROR(q_kill_doc.bind(1, std::int64_t{d.id}).run());
-    LODE_RETURN_IF_ERROR(q_delete_text.bind(1, std::int64_t{d.id}).run());
-    LODE_RETURN_IF_ERROR(q_delete_fwd.bind(1, std::int64_t{d.id}).run());
-    LODE_RETURN_IF_ERROR(q_delete_meta.bind(1, std::int64_t{d.id}).run());
+  }
+  std::vector<store::TermDelta> changes;
+  changes.reserve(deltas.size());
+  for (const auto& [id, d] : deltas) changes.push_back(d);
+  auto dfs = store->adjust_terms(changes);
+  if (!dfs) return dfs.status();
+  for (std::int64_t df : *dfs)
+    if (df == 0) --counters.terms;
+  LODE_RETURN_IF_ERROR(store->kill_documents(ids));
+  for (const auto& d : *dead) {
     auto chunk = norms_chunk(d.id / codec::kNormsPerChunk);
     if (!chunk) return chunk.status();
-    codec::put_norm(**chunk, d.id % codec::kNormsPerChunk, codec::NormEntry{false, d.len});
+    codec::put_norm(**chunk, d.id % codec::kNormsPerChunk, codec::NormEntry{false, d.length});
     --counters.documents;
     ++counters.dead_documents;
-    for (std::size_t f = 0; f < kFieldCount; ++f) counters.total_length[f] -= d.len[f];
+    for (std::size_t f = 0; f < kFieldCount; ++f) counters.total_length[f] -= d.length[f];
   }
   return Status();
 }
@@ -226,25 +170,17 @@ Status IndexWriter::Impl::add_document(std::int64_t file_id, const DocumentInput
   batch.begin_document(id);
   std::array<std::uint32_t, kFieldCount> len{};
   for (Field f : kAllFields) {
-    auto fi = static_cast<std::size_t>(f);
-    const Analyzer::Analyzed& analyzed = p.fields[fi];
-    len[fi] = static_cast<std::uint32_t>(analyzed.tokens.size());
-    if (f == Field::kBody) {
-      const std::string map =
-          d.page_offsets.empty() ? std::string() : codec::encode_page_map(page_map(d.page_offsets, analyzed.tokens));
-      q_put_meta.bind(1, std::int64_t{id}).bind(2, d.author)
-          .bind(3, d.date != 0 ? d.date : mtime_ns / 1000000000).bind(4, std::int64_t{d.pages});
-      q_put_meta.bind_blob(5, map);  // empty: not paged
-      LODE_RETURN_IF_ERROR(q_put_meta.run());
-    }
+    const Analyzer::Analyzed& analyzed = p.fields[static_cast<std::size_t>(f)];
+    len[static_cast<std::size_t>(f)] = static_cast<std::uint32_t>(analyzed.tokens.size());
     LODE_RETURN_IF_ERROR(batch.add_field(f, analyzed.tokens));
   }
-
-  LODE_RETURN_IF_ERROR(q_insert_doc.bind(1, std::int64_t{id}).bind(2, file_id).bind(3, d.external_id)
-                           .bind(4, d.title).bind(5, d.kind).bind(6, std::int64_t{len[0]})
-                           .bind(7, std::int64_t{len[1]}).run());
-  LODE_RETURN_IF_ERROR(q_insert_text.bind(1, std::int64_t{id}).bind_blob(2, p.title_blob)
-                           .bind_blob(3, p.body_blob).run());
+  const auto& body = p.fields[static_cast<std::size_t>(Field::kBody)].tokens;
+  const std::string map = d.page_offsets.empty() ? std::string() : codec::encode_page_map(page_map(d.page_offsets, body));
+  const store::DocumentRow row{id,       file_id,      d.external_id, d.title,
+                               d.kind,   len,          p.title_blob,  p.body_blob,
+                               d.author, d.date != 0 ? d.date : mtime_ns / 1000000000,
+                               d.pages,  map};
+  LODE_RETURN_IF_ERROR(store->put_documents(std::span<const store::DocumentRow>(&row, 1)));
   auto chunk = norms_chunk(id / codec::kNormsPerChunk);
   if (!chunk) return chunk.status();
   codec::put_norm(**chunk, id % codec::kNormsPerChunk, codec::NormEntry{true, len});
@@ -274,39 +210,23 @@ Status IndexWriter::Impl::write_term(const PostingBatch::Runs& runs, std::span<c
 }
 
 Status IndexWriter::Impl::put_segment(TermId id, const codec::BuiltSegment& seg) {
-  LODE_RETURN_IF_ERROR(q_put_segment.bind(1, id).bind(2, std::int64_t{seg.first_doc})
-                           .bind(3, std::int64_t{seg.last_doc}).bind(4, std::int64_t{seg.count})
-                           .bind_blob(5, seg.head).bind_blob(6, seg.data).run());
-  return q_put_positions.bind(1, db.last_insert_rowid()).bind_blob(2, seg.positions).run();
+  return store->put_segment(id, seg.first_doc, seg.last_doc, seg.count, seg.head, seg.data, seg.positions);
 }
 
 // A last segment under kRefillPostings postings is deleted and its blocks
 // start `out`: rewriting it costs at most that many postings per term.
 Status IndexWriter::Impl::take_back_last_segment(TermId id, codec::SegmentBuilder& out) {
-  constexpr std::int64_t kRefillPostings = 4 * kBlockSize;
-  q_last_segment.bind(1, id);
-  if (!q_last_segment.step() || q_last_segment.i64(3) >= kRefillPostings) {
-    Status s = q_last_segment.status();
-    q_last_segment.reset();
-    return s;
-  }
-  const std::int64_t key = q_last_segment.i64(0);
-  std::vector<PostingList::StoredSegment> stored(1);
-  stored[0] = PostingList::StoredSegment{key, static_cast<DocId>(q_last_segment.i64(1)),
-                                         static_cast<DocId>(q_last_segment.i64(2)),
-                                         static_cast<std::uint32_t>(q_last_segment.i64(3)),
-                                         std::string(q_last_segment.blob(4)), std::string(q_last_segment.blob(5))};
-  q_last_segment.reset();
+  constexpr std::uint32_t kRefillPostings = 4 * kBlockSize;
+  auto last = store->last_segment(id);
+  if (!last) return last.status();
+  if (!*last || (*last)->segment.count >= kRefillPostings) return Status();
+  const std::int64_t key = (*last)->segment.key;
+  const std::string positions = std::move((*last)->positions);
+  std::vector<PostingList::StoredSegment> stored;
+  stored.push_back(std::move((*last)->segment));
   auto list = PostingList::build(std::move(stored), "term " + std::to_string(id));
   if (!list) return list.status();
-  std::string positions;
-  q_get_positions.bind(1, key);
-  if (q_get_positions.step()) positions = std::string(q_get_positions.blob(0));
-  Status s = q_get_positions.status();
-  q_get_positions.reset();
-  LODE_RETURN_IF_ERROR(s);
-  LODE_RETURN_IF_ERROR(q_drop_segment.bind(1, key).run());
-  LODE_RETURN_IF_ERROR(q_drop_positions.bind(1, key).run());
+  LODE_RETURN_IF_ERROR(store->drop_segment(key));
   const auto blocks = (*list)->blocks();
   for (std::size_t b = 0; b < blocks.size(); ++b) {
     const PostingList::Block& blk = blocks[b];
@@ -334,41 +254,42 @@ Status IndexWriter::Impl::flush() {
   if (!in_txn) return Status();
   // 1. Term ids for every term of the batch, adding its df and cf. Ids
   // above the old maximum are new: they have no blocks.
-  TermId max_before = 0;
-  {
-    // A failed read must stop the flush: taken as 0, every term would look
-    // new and its existing blocks would be ignored.
-    auto row = sql::one_row(q_max_term, "the largest term id");
-    if (!row) return row.status();
-    max_before = q_max_term.i64(0);
+  // A failed read must stop the flush: taken as 0, every term would look
+  // new and its existing blocks would be ignored.
+  auto max_id_before = store->max_term_id();
+  if (!max_id_before) return max_id_before.status();
+  const TermId max_before = *max_id_before;
+  const std::vector<std::uint32_t>& by_name = batch.id_order();
+  std::vector<store::TermKey> keys;
+  keys.reserve(by_name.size());
+  for (std::uint32_t slot : by_name) keys.push_back({batch.term(slot).field, batch.term(slot).term});
+  auto found = store->find_terms(keys);
+  if (!found) return found.status();
+  std::vector<store::TermKey> new_keys;
+  std::vector<std::pair<std::int64_t, std::int64_t>> new_counts;
+  std::vector<store::TermDelta> deltas;
+  for (std::size_t i = 0; i < by_name.size(); ++i) {
+    const PostingBatch::Term& t = batch.term(by_name[i]);
+    const auto df = static_cast<std::int64_t>(t.df), cf = static_cast<std::int64_t>(t.cf);
+    if ((*found)[i]) {
+      deltas.push_back({(*found)[i]->first, df, cf});
+      if ((*found)[i]->second == 0) ++counters.terms;  // known, but in no live document until now
+    } else {
+      new_keys.push_back(keys[i]);
+      new_counts.emplace_back(df, cf);
+      ++counters.terms;
+    }
   }
+  auto new_ids = store->add_terms(new_keys, new_counts);
+  if (!new_ids) return new_ids.status();
+  LODE_RETURN_IF_ERROR(store->adjust_terms(deltas).status());
   std::vector<TermId> id_of(batch.term_count());
   std::vector<std::pair<TermId, std::uint32_t>> order;  // (term id, slot)
   order.reserve(batch.term_count());
-  for (std::uint32_t slot : batch.id_order()) {
-    const PostingBatch::Term& t = batch.term(slot);
-    const auto df = static_cast<std::int64_t>(t.df);
-    const auto cf = static_cast<std::int64_t>(t.cf);
-    const auto field = static_cast<std::int64_t>(t.field);
-    TermId id = 0;
-    std::int64_t old_df = 0;
-    q_find_term.bind(1, field).bind(2, t.term);
-    if (q_find_term.step()) {
-      id = q_find_term.i64(0);
-      old_df = q_find_term.i64(1);
-    }
-    Status s = q_find_term.status();
-    q_find_term.reset();
-    LODE_RETURN_IF_ERROR(s);
-    if (id == 0) {
-      LODE_RETURN_IF_ERROR(q_add_term.bind(1, field).bind(2, t.term).bind(3, df).bind(4, cf).run());
-      id = db.last_insert_rowid();
-    } else {
-      LODE_RETURN_IF_ERROR(q_update_term.bind(1, df).bind(2, cf).bind(3, id).run());
-    }
-    if (old_df == 0) ++counters.terms;
-    id_of[slot] = id;
-    order.emplace_back(id, slot);
+  for (std::size_t i = 0, added = 0; i < by_name.size(); ++i) {
+    const TermId id = (*found)[i] ? (*found)[i]->first : (*new_ids)[added++];
+    id_of[by_name[i]] = id;
+    order.emplace_back(id, by_name[i]);
   }
   // 2. Postings, in term id order.
   std::sort(order.begin(), order.end());
@@ -414,15 +335,18 @@ Status IndexWriter::Impl::flush() {
       for (const std::uint64_t w : fwd_words[f])
         per_field[f].emplace_back(static_cast<TermId>(w >> 32), static_cast<std::uint32_t>(w));
     }
-    LODE_RETURN_IF_ERROR(
-        q_put_fwd.bind(1, std::int64_t{batch.doc(d).id}).bind_blob(2, codec::encode_forward(per_field)).run());
+    fwd_rows.emplace_back(batch.doc(d).id, codec::encode_forward(per_field));
+    // Written in groups: one call per group, not per document, and never
+    // the whole batch's lists held at once.
+    if (fwd_rows.size() == 1024 || d + 1 == batch.documents()) {
+      LODE_RETURN_IF_ERROR(store->put_forward(fwd_rows));
+      fwd_rows.clear();
+    }
   }
   // 4. Norms and counters.
-  for (auto& [chunk, data] : dirty_norms)
-    LODE_RETURN_IF_ERROR(q_put_norms.bind(1, std::int64_t{chunk}).bind_blob(2, data).run());
+  for (auto& [chunk, data] : dirty_norms) LODE_RETURN_IF_ERROR(store->put_norms_chunk(chunk, data));
   ++counters.generation;
-  LODE_RETURN_IF_ERROR(schema::store_counters(db, counters));
-  LODE_RETURN_IF_ERROR(db.exec("COMMIT"));
+  LODE_RETURN_IF_ERROR(store->commit(counters));
   in_txn = false;
 #ifdef __GLIBC__
   // Hand the freed pages of the batch's many small allocations back to the
@@ -438,81 +362,36 @@ Status IndexWriter::Impl::flush() {
 
 IndexWriter::IndexWriter(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
 
-IndexWriter::~IndexWriter() {
-  if (impl_ && impl_->in_txn) (void)impl_->db.exec("ROLLBACK");
-}
+IndexWriter::~IndexWriter() = default;  // the store rolls back what was not committed
 
 Result<std::unique_ptr<IndexWriter>> IndexWriter::open(const std::string& path,
                                                        const std::optional<IndexSettings>& settings,
                                                        const WriterOptions& options) {
   auto impl = std::make_unique<Impl>();
   impl->options = options;
-  auto lock = WriterLock::acquire(path);
-  if (!lock) return lock.status();
-  impl->lock.emplace(std::move(lock.value()));
-  auto db = sql::Db::open(path, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
-  if (!db) return db.status();
-  impl->db = std::move(db.value());
-  auto have = schema::exists(impl->db);
-  if (!have) return have.status();
-  if (!*have) {
-    LODE_RETURN_IF_ERROR(impl->db.exec("PRAGMA page_size=8192"));
-    LODE_RETURN_IF_ERROR(schema::configure(impl->db, true));
-    LODE_RETURN_IF_ERROR(impl->db.exec("BEGIN IMMEDIATE"));
-    LODE_RETURN_IF_ERROR(schema::create(impl->db, settings.value_or(IndexSettings{})));
-    LODE_RETURN_IF_ERROR(impl->db.exec("COMMIT"));
-  } else {
-    LODE_RETURN_IF_ERROR(schema::configure(impl->db, true));
-  }
-  auto recorded = schema::load_settings(impl->db);
-  if (!recorded) return recorded.status();
-  impl->settings = recorded.value();
-  if (settings && (settings->analyzer.language != impl->settings.analyzer.language ||
-                   settings->analyzer.stopwords != impl->settings.analyzer.stopwords))
+  auto store = store::open_sqlite_writer(path, settings);
+  if (!store) return store.status();
+  impl->store = std::move(store).value();
+  const IndexSettings& recorded = impl->store->settings();
+  if (settings && (settings->analyzer.language != recorded.analyzer.language ||
+                   settings->analyzer.stopwords != recorded.analyzer.stopwords))
     return Status::InvalidArgument(
-        path + " was created with language '" + impl->settings.analyzer.language + "' and stopwords " +
-        (impl->settings.analyzer.stopwords ? "on" : "off") +
+        path + " was created with language '" + recorded.analyzer.language + "' and stopwords " +
+        (recorded.analyzer.stopwords ? "on" : "off") +
         "; analyzer settings are fixed at creation (make a new index to change them)");
-  auto analyzer = Analyzer::create(impl->settings.analyzer);
+  auto analyzer = Analyzer::create(recorded.analyzer);
   if (!analyzer) return analyzer.status();
   impl->analyzer = std::move(analyzer.value());
-  auto counters = schema::load_counters(impl->db);
-  if (!counters) return counters.status();
-  impl->counters = counters.value();
-  LODE_RETURN_IF_ERROR(impl->prepare_all());
+  impl->counters = impl->store->committed();
   return std::unique_ptr<IndexWriter>(new IndexWriter(std::move(impl)));
 }
 
-const IndexSettings& IndexWriter::settings() const { return impl_->settings; }
+const IndexSettings& IndexWriter::settings() const { return impl_->store->settings(); }
 
-namespace {
-FileRecord file_from(sql::Stmt& q) {
-  return FileRecord{std::string(q.text(1)), std::string(q.text(2)), q.i64(3), q.i64(4),
-                    std::string(q.text(5)), std::string(q.text(6))};
-}
-}  // namespace
-
-Result<std::optional<FileRecord>> IndexWriter::file(const std::string& path) {
-  auto& q = impl_->q_file;
-  q.bind(1, path);
-  std::optional<FileRecord> out;
-  if (q.step()) out = file_from(q);
-  Status s = q.status();
-  q.reset();
-  if (!s.ok()) return s;
-  return out;
-}
+Result<std::optional<FileRecord>> IndexWriter::file(const std::string& path) { return impl_->store->file(path); }
 
 Result<std::vector<FileRecord>> IndexWriter::files_with_prefix(const std::string& prefix) {
-  auto q = impl_->db.prepare(
-      "SELECT file_id, path, root, size, mtime_ns, hash, kind FROM files "
-      "WHERE substr(path, 1, length(?1)) = ?1 ORDER BY path");
-  if (!q) return q.status();
-  q->bind(1, prefix);
-  std::vector<FileRecord> out;
-  while (q->step()) out.push_back(file_from(*q));
-  if (!q->status().ok()) return q->status();
-  return out;
+  return impl_->store->files_with_prefix(prefix);
 }
 
 Status IndexWriter::put_file(const FileRecord& file, const std::vector<DocumentInput>& documents) {
@@ -524,21 +403,17 @@ Status IndexWriter::begin_file(const FileRecord& file) {
   auto& m = *impl_;
   m.open_file = {};
   LODE_RETURN_IF_ERROR(m.begin());
-  m.q_file.bind(1, file.path);
-  std::int64_t file_id = 0;
-  if (m.q_file.step()) file_id = m.q_file.i64(0);
-  Status s = m.q_file.status();
-  m.q_file.reset();
-  LODE_RETURN_IF_ERROR(s);
+  auto id = m.store->file_id(file.path);
+  if (!id) return id.status();
+  std::int64_t file_id = *id;
   if (file_id != 0) {
     LODE_RETURN_IF_ERROR(m.remove_docs_of(file_id));
     LODE_RETURN_IF_ERROR(m.begin());  // remove_docs_of may have flushed
-    LODE_RETURN_IF_ERROR(m.q_update_file.bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns)
-                             .bind(4, file.hash).bind(5, file.kind).bind(6, file_id).run());
+    LODE_RETURN_IF_ERROR(m.store->update_file(file_id, file));
   } else {
-    LODE_RETURN_IF_ERROR(m.q_insert_file.bind(1, file.path).bind(2, file.root).bind(3, file.size)
-                             .bind(4, file.mtime_ns).bind(5, file.hash).bind(6, file.kind).run());
-    file_id = m.db.last_insert_rowid();
+    auto added = m.store->insert_file(file);
+    if (!added) return added.status();
+    file_id = *added;
     ++m.counters.files;
   }
   m.open_file = {file_id, file.path, file.mtime_ns};
@@ -585,8 +460,7 @@ Status IndexWriter::finish_file(const FileRecord& file) {
   if (m.open_file.id == 0 || m.open_file.path != file.path)
     return Status::InvalidArgument(file.path + ": finish_file without begin_file");
   LODE_RETURN_IF_ERROR(m.begin());
-  LODE_RETURN_IF_ERROR(m.q_update_file.bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns)
-                           .bind(4, file.hash).bind(5, file.kind).bind(6, m.open_file.id).run());
+  LODE_RETURN_IF_ERROR(m.store->update_file(m.open_file.id, file));
   m.open_file = {};
   return Status();
 }
@@ -595,31 +469,19 @@ Status IndexWriter::touch_file(const FileRecord& file) {
   auto& m = *impl_;
   m.open_file = {};
   LODE_RETURN_IF_ERROR(m.begin());
-  auto q = m.db.prepare("UPDATE files SET root=?, size=?, mtime_ns=? WHERE path=?");
-  if (!q) return q.status();
-  LODE_RETURN_IF_ERROR(q->bind(1, file.root).bind(2, file.size).bind(3, file.mtime_ns).bind(4, file.path).run());
-  if (sqlite3_changes(m.db.raw()) == 0) return Status::NotFound(file.path + ": not in the index");
-  return Status();
+  return m.store->touch_file(file);
 }
 
 Status IndexWriter::remove_file(const std::string& path) {
   auto& m = *impl_;
   m.open_file = {};
-  auto rec = file(path);
-  if (!rec) return rec.status();
-  if (!rec->has_value()) return Status::NotFound(path + ": not in the index");
+  auto file_id = m.store->file_id(path);
+  if (!file_id) return file_id.status();
+  if (*file_id == 0) return Status::NotFound(path + ": not in the index");
   LODE_RETURN_IF_ERROR(m.begin());
-  m.q_file.bind(1, path);
-  std::int64_t file_id = 0;
-  {
-    // Found a moment ago: no row now is a read error, never "file 0".
-    auto row = sql::one_row(m.q_file, path + ": not in the index");
-    if (!row) return row.status();
-    file_id = m.q_file.i64(0);
-  }
-  LODE_RETURN_IF_ERROR(m.remove_docs_of(file_id));
+  LODE_RETURN_IF_ERROR(m.remove_docs_of(*file_id));
   LODE_RETURN_IF_ERROR(m.begin());
-  LODE_RETURN_IF_ERROR(m.q_delete_file.bind(1, file_id).run());
+  LODE_RETURN_IF_ERROR(m.store->delete_file(*file_id));
   --m.counters.files;
   return Status();
 }
@@ -628,41 +490,20 @@ Status IndexWriter::rename_file(const std::string& old_path, const FileRecord& f
                                 const std::string& new_id) {
   auto& m = *impl_;
   m.open_file = {};
-  auto taken = this->file(file.path);
+  auto taken = m.store->file_id(file.path);
   if (!taken) return taken.status();
-  if (taken->has_value()) return Status::InvalidArgument(file.path + ": already in the index (rename target)");
+  if (*taken != 0) return Status::InvalidArgument(file.path + ": already in the index (rename target)");
   LODE_RETURN_IF_ERROR(m.begin());
-  auto q = m.db.prepare("UPDATE files SET path=?, root=?, size=?, mtime_ns=? WHERE path=? RETURNING file_id");
-  if (!q) return q.status();
-  q->bind(1, file.path).bind(2, file.root).bind(3, file.size).bind(4, file.mtime_ns).bind(5, old_path);
-  if (!q->step()) return q->status().ok() ? Status::NotFound(old_path + ": not in the index") : q->status();
-  const std::int64_t file_id = q->i64(0);
-  while (q->step()) {
-  }
-  LODE_RETURN_IF_ERROR(q->status());
-  auto ids = m.db.prepare(
-      "UPDATE docs SET external_id = ?1 || substr(external_id, length(?2) + 1) "
-      "WHERE file_id = ?3 AND live = 1 AND (external_id = ?2 OR substr(external_id, 1, length(?2) + 1) = ?2 || '#')");
-  if (!ids) return ids.status();
-  return ids->bind(1, new_id).bind(2, old_id).bind(3, file_id).run();
+  return m.store->rename_file(old_path, file, old_id, new_id);
 }
 
 Status IndexWriter::record_problems(const std::string& path, const std::vector<RecordedProblem>& problems) {
   auto& m = *impl_;
   LODE_RETURN_IF_ERROR(m.begin());
-  auto del = m.db.prepare("DELETE FROM problems WHERE path = ?");
-  if (!del) return del.status();
-  LODE_RETURN_IF_ERROR(del->bind(1, path).run());
-  auto ins = m.db.prepare("INSERT INTO problems(path, error, message, time_ns) VALUES(?,?,?,?)");
-  if (!ins) return ins.status();
-  for (const auto& p : problems) {
-    LODE_RETURN_IF_ERROR(ins->bind(1, path).bind(2, std::int64_t{p.error ? 1 : 0}).bind(3, p.message)
-                             .bind(4, p.time_ns).run());
-  }
-  return Status();
+  return m.store->replace_problems(path, problems);
 }
 
-Result<std::vector<RecordedProblem>> IndexWriter::problems() { return schema::load_problems(impl_->db); }
+Result<std::vector<RecordedProblem>> IndexWriter::problems() { return impl_->store->problems(); }
 
 Status IndexWriter::commit() {
   if (!impl_->in_txn) return Status();
@@ -679,7 +520,7 @@ CollectionStats IndexWriter::stats() const {
   s.postings = c.postings;
   s.dead_documents = c.dead_documents;
   s.generation = c.generation;
-  s.bytes_on_disk = schema::bytes_on_disk(impl_->db.path());
+  s.bytes_on_disk = impl_->store->bytes_on_disk();
   return s;
 }
 
